@@ -1,0 +1,51 @@
+/**
+ * `steadyfold score <data> <embedding.csv>`: scores for an embedding made
+ * anywhere. The data are used as loaded (optionally --scale / --pca-dims;
+ * unlike `audit`, no PCA is applied unless asked), so the numbers match
+ * scikit-learn's trustworthiness on the same two tables.
+ */
+import { InputError } from '../../core/errors.js';
+import { embeddingAsMatrix } from '../../core/matrix.js';
+import { readEmbeddingCsv } from '../../io/embedding-csv.js';
+import { knnOf } from '../../neighbors/exact.js';
+import { continuity, knnOverlap, trustworthiness } from '../../metrics/neighbourhood.js';
+import { procrustes } from '../../metrics/procrustes.js';
+import { loadData, preprocess } from '../../pipeline/prepare.js';
+import { sweepFromArgv } from './common.js';
+
+export async function run(argv: Record<string, unknown>): Promise<void> {
+  const cfg = await sweepFromArgv({ ...argv, k: undefined, 'pca-dims': argv['pca-dims'] ?? 'none' });
+  const k = Number(argv.k);
+  const { dataset, warnings } = await loadData(String(argv.data), cfg.data);
+  for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
+  if (dataset.droppedRows > 0) {
+    throw new InputError('score.dropped-rows', `${dataset.path}: ${dataset.droppedRows} rows were dropped, so rows no longer line up with the embedding; fix the missing values instead of --missing drop`);
+  }
+  const X = preprocess(dataset, warnings, cfg.data).X;
+  const embPath = String(argv.embedding);
+  const emb = await readEmbeddingCsv(embPath);
+  if (emb.n !== X.n) throw new InputError('score.row-count', `${embPath}: has ${emb.n} rows but ${dataset.path} has ${X.n}; the embedding must have one row per data row, in the same order`);
+  if (!Number.isInteger(k) || k < 1 || k > X.n - 2) throw new InputError('flags.k', `--k: ${String(argv.k)} is not allowed; give a whole number from 1 to n − 2 = ${X.n - 2}`);
+  const Y = embeddingAsMatrix(emb);
+  const knnX = knnOf(X, k);
+  const knnY = knnOf(Y, k);
+  const scores: Record<string, number> = {
+    trustworthiness: trustworthiness(X, Y, k, { knnX, knnY }),
+    continuity: continuity(X, Y, k, { knnX, knnY }),
+    knn_overlap: knnOverlap(knnX, knnY, k).fraction,
+  };
+  if (typeof argv.against === 'string') {
+    const other = await readEmbeddingCsv(argv.against);
+    if (other.n !== X.n) throw new InputError('score.row-count', `${argv.against}: has ${other.n} rows but ${embPath} has ${X.n}; both embeddings must cover the same rows in the same order`);
+    const Z = embeddingAsMatrix(other);
+    scores.procrustes_disparity = procrustes(Y, Z).disparity;
+    scores.knn_overlap_between = knnOverlap(knnY, knnOf(Z, k), k).fraction;
+  }
+  if (argv.json === true) {
+    process.stdout.write(JSON.stringify({ data: dataset.path, embedding: embPath, n: X.n, k, scores }, null, 2) + '\n');
+    return;
+  }
+  const lines = [`${embPath} against ${dataset.path} (n = ${X.n}, k = ${k})`];
+  for (const [name, v] of Object.entries(scores)) lines.push(`  ${name.padEnd(22)} ${v.toFixed(6)}`);
+  process.stdout.write(lines.join('\n') + '\n');
+}

@@ -1,0 +1,118 @@
+/**
+ * Grid expansion: a SweepConfig becomes settings (method × parameter
+ * combinations) and runs (setting × seed) with stable ids, plus a time
+ * estimate. No computation of embeddings happens here.
+ */
+import type { MethodName, MethodParams, RunSpec, SettingSpec } from '../core/types.js';
+import { checkAgainstRows, settingId, withDefaults } from '../embed/methods.js';
+import type { SweepConfig } from './sweep.js';
+
+export interface Plan {
+  settings: SettingSpec[];
+  runs: RunSpec[];
+  /** Largest neighbour count any stage needs (t-SNE 3·perplexity+1, UMAP n_neighbors, scoring k), capped at n − 1. */
+  kMax: number;
+}
+
+/** Expand the grid. PCA is deterministic, so it gets one run whatever the seeds; it is always included as the linear baseline. */
+export function expandGrid(cfg: SweepConfig): { settings: SettingSpec[]; runs: RunSpec[] } {
+  const settings: SettingSpec[] = [];
+  const methods: MethodName[] = cfg.methods.includes('pca') ? [...cfg.methods] : [...cfg.methods, 'pca'];
+  for (const method of methods) {
+    for (const params of combos(method, cfg)) {
+      const full = withDefaults(method, params);
+      const seeds = method === 'pca' ? [cfg.seeds[0]] : cfg.seeds;
+      settings.push({ id: settingId(method, full), method, params: full, seeds });
+    }
+  }
+  const runs: RunSpec[] = [];
+  for (const s of settings) {
+    for (const seed of s.seeds) {
+      runs.push({ id: `${s.id}-s${seed}`, settingId: s.id, method: s.method, params: s.params, seed });
+    }
+  }
+  return { settings, runs };
+}
+
+function combos(method: MethodName, cfg: SweepConfig): MethodParams[] {
+  if (method === 'tsne') {
+    const out: MethodParams[] = [];
+    for (const perplexity of cfg.tsne.perplexity)
+      for (const init of cfg.tsne.init)
+        for (const iterations of cfg.tsne.iterations) out.push({ perplexity, init, iterations });
+    return out;
+  }
+  if (method === 'umap') {
+    const out: MethodParams[] = [];
+    for (const nNeighbors of cfg.umap.nNeighbors) for (const minDist of cfg.umap.minDist) out.push({ nNeighbors, minDist });
+    return out;
+  }
+  return [{}];
+}
+
+/** Every setting that does not fit n rows, as one-line messages. */
+export function rowLimitProblems(settings: SettingSpec[], n: number, k: number): string[] {
+  const problems: string[] = [];
+  for (const s of settings) {
+    const p = checkAgainstRows(s.method, s.params, n);
+    if (p) problems.push(`setting ${s.id}: ${p}`);
+  }
+  if (!(k < n - 1)) problems.push(`k ${k} needs more rows: scoring requires k < n − 1 = ${n - 1}`);
+  return problems;
+}
+
+/** Neighbour columns needed by the runs and the scores. */
+export function neighboursNeeded(settings: SettingSpec[], k: number, n: number): number {
+  let kMax = k;
+  for (const s of settings) {
+    if (s.method === 'tsne') kMax = Math.max(kMax, Math.floor(3 * (s.params.perplexity ?? 30)) + 1);
+    if (s.method === 'umap') kMax = Math.max(kMax, (s.params.nNeighbors ?? 15) - 1);
+  }
+  return Math.min(kMax, n - 1);
+}
+
+/**
+ * Seconds one run is expected to take on one core, from a cost model fitted
+ * to timings of this version on the reference machine (2-core x86-64, Node 20;
+ * see README "Performance"). Used only for `plan` and the ETA.
+ */
+export function estimateRunSeconds(method: MethodName, params: MethodParams, n: number): number {
+  const nlogn = n * Math.log2(Math.max(n, 2));
+  if (method === 'tsne') {
+    const it = params.iterations ?? 1000;
+    const perp = params.perplexity ?? 30;
+    return 0.05 + COST.tsnePerNlognIter * nlogn * it + COST.tsnePerEdgeIter * n * 3 * perp * it;
+  }
+  if (method === 'umap') {
+    const epochs = n <= 2500 ? 500 : n <= 5000 ? 400 : n <= 7500 ? 300 : 200;
+    const k = params.nNeighbors ?? 15;
+    return 0.05 + COST.umapPerEdgeEpoch * n * k * epochs + COST.umapGraphPerEdge * n * k;
+  }
+  return 0.01 + COST.pcaPerCell * n;
+}
+
+/** Cost constants (seconds per unit of work). */
+export const COST = {
+  tsnePerNlognIter: 1.5e-7,
+  tsnePerEdgeIter: 1.5e-9,
+  umapPerEdgeEpoch: 1.3e-8,
+  umapGraphPerEdge: 8e-6,
+  pcaPerCell: 1e-6,
+  knnPerPairDim: 1.2e-9,
+  scorePerRun: 0.05,
+};
+
+/** Whole-sweep estimate: one-off neighbour search, then runs spread over the workers. */
+export function estimateSweepSeconds(runs: RunSpec[], n: number, d: number, workers: number, kMax: number): { total: number; neighbours: number; runs: number } {
+  const neighbours = COST.knnPerPairDim * n * n * d + 1e-7 * n * kMax;
+  const perRun = runs.map((r) => estimateRunSeconds(r.method, r.params, n) + COST.scorePerRun * (n / 1000));
+  // Longest-first greedy assignment to workers, as the pool roughly behaves.
+  const loads = new Array<number>(Math.max(1, workers)).fill(0);
+  for (const t of [...perRun].sort((a, b) => b - a)) {
+    let m = 0;
+    for (let w = 1; w < loads.length; w++) if (loads[w] < loads[m]) m = w;
+    loads[m] += t * (workers > 1 ? 1.15 : 1); // two busy cores run ~15% slower each (measured)
+  }
+  const runsTime = Math.max(...loads);
+  return { total: neighbours + runsTime, neighbours, runs: runsTime };
+}

@@ -1,0 +1,175 @@
+/**
+ * The whole audit: load → preprocess → neighbours → runs (executor) →
+ * scores → rank → results. Returns everything to be written; writing is
+ * left to the caller so a failure part-way leaves earlier outputs intact.
+ */
+import os from 'node:os';
+import { InputError } from '../core/errors.js';
+import { RESULTS_FORMAT, type ResultsJson, type RunRecord, type StabilityRecord } from '../core/results.js';
+import { Rng, deriveSeed } from '../core/rng.js';
+import type { Embedding, RunSpec } from '../core/types.js';
+import { VERSION } from '../core/version.js';
+import { expandGrid, neighboursNeeded, rowLimitProblems, estimateSweepSeconds } from '../config/plan.js';
+import type { SweepConfig } from '../config/sweep.js';
+import { paramsForFile } from '../embed/methods.js';
+import { InlineExecutor, PoolExecutor } from '../exec/pool.js';
+import type { Executor, RunOutcome } from '../exec/executor.js';
+import { seedStability } from '../metrics/stability.js';
+import { rankSettings } from '../rank/rank.js';
+import { chooseClusters } from './clusters.js';
+import { loadData, neighbours, preprocess, DATA_SEED } from './prepare.js';
+import type { ProgressSink } from './progress.js';
+import { runOne, type RunContext } from './run-one.js';
+
+export interface AuditRequest {
+  dataPath: string;
+  sweep: SweepConfig;
+  /** Worker threads; 0 runs everything on the main thread. */
+  workers: number;
+  /** The command line, for provenance. */
+  command: string;
+  /** ISO date for provenance (passed in so tests can fix it). */
+  created: string;
+}
+
+export interface AuditOutput {
+  results: ResultsJson;
+  /** run id → embedding, for successful runs. */
+  embeddings: Map<string, Embedding>;
+  warnings: string[];
+}
+
+export function defaultWorkers(): number {
+  return Math.max(1, typeof os.availableParallelism === 'function' ? os.availableParallelism() : os.cpus().length);
+}
+
+export async function runAudit(req: AuditRequest, progress: ProgressSink): Promise<AuditOutput> {
+  const cfg = req.sweep;
+  progress.stage('loading', 1);
+  const { dataset, warnings } = await loadData(req.dataPath, cfg.data);
+  for (const w of warnings) progress.warn(w);
+
+  const { settings, runs } = expandGrid(cfg);
+  const problems = rowLimitProblems(settings, dataset.matrix.n, cfg.k);
+  if (problems.length > 0) {
+    throw new InputError('sweep.too-few-rows', `${dataset.path}: ${dataset.matrix.n} rows are too few for ${problems[0]}${problems.length > 1 ? ` (and ${problems.length - 1} more)` : ''}`);
+  }
+
+  progress.stage('preprocessing', 1);
+  const prep = preprocess(dataset, warnings, cfg.data);
+  const X = prep.X;
+  const kMax = neighboursNeeded(settings, cfg.k, X.n);
+  const est = estimateSweepSeconds(runs, X.n, X.d, Math.max(1, req.workers), kMax);
+  progress.stage('neighbours', 1, est.neighbours);
+  const knn = neighbours(X, kMax);
+  progress.tick(1);
+
+  const ctx: RunContext = { X, knn, k: cfg.k };
+  const executor: Executor = req.workers > 0 ? new PoolExecutor(ctx, req.workers) : new InlineExecutor(ctx, runOne);
+  progress.stage('runs', runs.length, est.runs);
+  let done = 0;
+  let outcomes: RunOutcome[];
+  try {
+    outcomes = await executor.runAll(runs, (o) => {
+      done++;
+      if (!o.ok) progress.warn(`run ${o.id} failed: ${o.error}`);
+      progress.tick(done, o.id);
+    });
+  } finally {
+    await executor.close();
+  }
+
+  const embeddings = new Map<string, Embedding>();
+  const records: RunRecord[] = runs.map((spec, i) => toRecord(spec, outcomes[i], X.n, embeddings));
+
+  progress.stage('scoring', settings.length);
+  const choice = chooseClusters(X, dataset.labels, cfg.data.label, cfg.clusters);
+  const inputs = settings.map((spec, si) => {
+    const mine = records.filter((r) => r.setting === spec.id);
+    const embs = mine.filter((r) => r.status === 'ok').map((r) => embeddings.get(r.id)!);
+    const stability = stabilityOf(embs, cfg.k, choice.clusters, spec.id);
+    progress.tick(si + 1, spec.id);
+    return { spec, runs: mine, stability };
+  });
+  const settingRecords = rankSettings(inputs, cfg.rankBy);
+
+  const results: ResultsJson = {
+    format: RESULTS_FORMAT,
+    steadyfold: { version: VERSION },
+    provenance: { command: req.command, created: req.created, cores: os.cpus().length, node: process.version },
+    dataset: {
+      path: dataset.path,
+      n: dataset.matrix.n,
+      d: dataset.matrix.d,
+      sha256: dataset.sha256,
+      label: cfg.data.label ?? null,
+      id: cfg.data.id ?? null,
+      dropped_rows: dataset.droppedRows,
+      dropped_columns: dataset.droppedColumns,
+      preprocess: {
+        scale: cfg.data.scale,
+        pca_dims: prep.pcaDims,
+        explained_variance_ratio: prep.explainedVarianceRatio,
+        input_dims: dataset.matrix.d,
+      },
+      labels: dataset.labels,
+      ids: dataset.ids,
+    },
+    sweep: {
+      k: cfg.k,
+      clusters: choice.clusters,
+      clusters_source: choice.source,
+      seeds: cfg.seeds,
+      rank_by: cfg.rankBy,
+      workers: req.workers,
+    },
+    runs: records,
+    settings: settingRecords,
+  };
+  return { results, embeddings, warnings };
+}
+
+function toRecord(spec: RunSpec, o: RunOutcome, n: number, embeddings: Map<string, Embedding>): RunRecord {
+  const base = {
+    id: spec.id,
+    setting: spec.settingId,
+    method: spec.method,
+    params: paramsForFile(spec.method, spec.params),
+    seed: spec.seed,
+    cache: 'computed' as const,
+  };
+  if (!o.ok) {
+    return { ...base, seconds: 0, status: 'failed', error: o.error, embedding: null, metrics: { trustworthiness: null, continuity: null, knn_overlap: null } };
+  }
+  const out = o.output;
+  embeddings.set(spec.id, { n, data: out.embedding });
+  const metrics: RunRecord['metrics'] = { ...out.metrics };
+  if (spec.method === 'tsne') metrics.kl_divergence = out.info.kl_divergence ?? null;
+  return { ...base, seconds: round3(out.seconds), status: 'ok', embedding: embeddingPath(spec.id), metrics };
+}
+
+export function embeddingPath(runId: string): string {
+  return `embeddings/${runId}.csv`;
+}
+
+function round3(x: number): number {
+  return Math.round(x * 1000) / 1000;
+}
+
+function stabilityOf(embs: Embedding[], k: number, clusters: number, settingId: string): StabilityRecord {
+  if (embs.length < 2) {
+    return { procrustes_mean: null, procrustes_max: null, seed_knn_overlap: null, ari_mean: null, pairs: 0, identical_maps: false };
+  }
+  const s = seedStability(
+    embs.map((e) => ({ n: e.n, d: 2, data: e.data })),
+    { k, clusters, rng: new Rng(deriveSeed(DATA_SEED, settingId, 'stability')) },
+  );
+  return {
+    procrustes_mean: s.procrustesMean,
+    procrustes_max: s.procrustesMax,
+    seed_knn_overlap: s.seedKnnOverlap,
+    ari_mean: s.ariMean,
+    pairs: s.pairs,
+    identical_maps: s.identicalMaps,
+  };
+}

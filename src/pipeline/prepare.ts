@@ -1,0 +1,55 @@
+/**
+ * Load → preprocess → neighbours: everything computed once per dataset and
+ * shared by all runs.
+ */
+import { InputError } from '../core/errors.js';
+import { Rng, deriveSeed } from '../core/rng.js';
+import type { Dataset, KnnGraph, Matrix } from '../core/types.js';
+import type { DataOptions } from '../config/sweep.js';
+import { DEFAULTS } from '../config/sweep.js';
+import { readTable } from '../io/csv.js';
+import { knnOf } from '../neighbors/exact.js';
+import { randomizedPca } from '../preprocess/pca.js';
+import { zScore } from '../preprocess/scale.js';
+
+export interface Prepared {
+  dataset: Dataset;
+  warnings: string[];
+  /** Data as the methods see it. */
+  X: Matrix;
+  /** PCA components kept, or null when PCA was not applied. */
+  pcaDims: number | null;
+  explainedVarianceRatio: number[];
+}
+
+/** Fixed seed for data-level randomness (randomized SVD), independent of the embedding seeds. */
+export const DATA_SEED = 20_240_917;
+
+export async function loadData(path: string, opts: DataOptions): Promise<{ dataset: Dataset; warnings: string[] }> {
+  return readTable(path, { delimiter: opts.delimiter, label: opts.label, id: opts.id, missing: opts.missing });
+}
+
+export function preprocess(dataset: Dataset, warnings: string[], opts: DataOptions): Prepared {
+  let X = dataset.matrix;
+  if (opts.scale) X = zScore(X);
+  let dims: number | null = null;
+  if (opts.pcaDims === 'auto') dims = X.d > DEFAULTS.pcaDimsAuto ? DEFAULTS.pcaDimsAuto : null;
+  else if (opts.pcaDims !== null) {
+    if (opts.pcaDims > X.d) {
+      throw new InputError('data.pca-dims', `--pca-dims ${opts.pcaDims} is more than the ${X.d} feature columns of ${dataset.path}; use at most ${X.d}, or 'none'`);
+    }
+    dims = opts.pcaDims;
+  }
+  if (dims !== null && dims > Math.min(X.n, X.d)) dims = Math.min(X.n, X.d);
+  let evr: number[] = [];
+  if (dims !== null) {
+    const pca = randomizedPca(X, dims, new Rng(deriveSeed(DATA_SEED, 'pca')));
+    X = pca.scores;
+    evr = Array.from(pca.explainedVarianceRatio);
+  }
+  return { dataset, warnings, X, pcaDims: dims, explainedVarianceRatio: evr };
+}
+
+export function neighbours(X: Matrix, k: number): KnnGraph {
+  return knnOf(X, k);
+}
