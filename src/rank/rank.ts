@@ -115,16 +115,20 @@ const f3 = (x: number | null | undefined): string => (x === null || x === undefi
 const pm = (m: MeanSd | undefined): string => (m && m.mean !== null ? `${f3(m.mean)}${m.sd !== null ? ` ± ${f3(m.sd)}` : ''}` : 'n/a');
 
 /**
- * Reading bands used in the verdicts. These are this tool's rules of thumb
- * (common practice for agreement indices, not published cut-offs): ARI and
- * seed kNN overlap ≥ 0.9 reproduce, 0.7–0.9 mostly reproduce, below 0.7 change with the seed.
+ * Reading bands for agreement indices (ARI, seed kNN overlap), used by the
+ * verdicts and the report summary. The ARI cut-offs follow the recovery bands
+ * suggested by Steinley (2004), "Properties of the Hubert–Arabie adjusted
+ * Rand index", Psychological Methods 9:386–396 (values quoted from memory):
+ * ≥ 0.90 excellent, ≥ 0.80 good, ≥ 0.65 moderate, below that poor. Applying the
+ * same cut-offs to the seed kNN overlap is this tool's rule of thumb.
  */
-export const AGREEMENT_BANDS = { strong: 0.9, moderate: 0.7 } as const;
+export const AGREEMENT_BANDS = { excellent: 0.9, good: 0.8, moderate: 0.65 } as const;
 
-function band(x: number | null): string {
-  if (x === null) return 'untested';
-  if (x >= AGREEMENT_BANDS.strong) return 'reproduce';
-  if (x >= AGREEMENT_BANDS.moderate) return 'mostly reproduce';
+export function agreementBand(x: number | null): string {
+  if (x === null || !Number.isFinite(x)) return 'untested';
+  if (x >= AGREEMENT_BANDS.excellent) return 'reproduce closely';
+  if (x >= AGREEMENT_BANDS.good) return 'reproduce';
+  if (x >= AGREEMENT_BANDS.moderate) return 'partly reproduce';
   return 'change with the seed';
 }
 
@@ -147,8 +151,8 @@ export function verdict(rec: Omit<SettingRecord, 'verdict'>, total: number, rank
     return `${head}: only one successful seed, so stability is untested; ${local}.`;
   }
   return (
-    `${head}: ${local}; across ${st.pairs} seed pairs its k-means clusters ${band(st.ari_mean)} (ARI ${f3(st.ari_mean)}), ` +
-    `neighbourhoods ${band(st.seed_knn_overlap)} (seed kNN overlap ${f3(st.seed_knn_overlap)}), ` +
+    `${head}: ${local}; across ${st.pairs} seed pairs its k-means clusters ${agreementBand(st.ari_mean)} (ARI ${f3(st.ari_mean)}), ` +
+    `neighbourhoods ${agreementBand(st.seed_knn_overlap)} (seed kNN overlap ${f3(st.seed_knn_overlap)}), ` +
     `Procrustes disparity ${f3(st.procrustes_mean)} (max ${f3(st.procrustes_max)}; 0 = same shape).`
   );
 }

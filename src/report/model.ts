@@ -2,6 +2,7 @@
  * The report's content, independent of the output format: every text here is
  * plain and unescaped; the HTML and Markdown renderers escape it.
  */
+import { AGREEMENT_BANDS } from '../rank/rank.js';
 import { InternalError } from '../core/errors.js';
 import { embeddingAsMatrix } from '../core/matrix.js';
 import type { ResultsJson, RunRecord, SettingRecord } from '../core/results.js';
@@ -66,8 +67,8 @@ const CORE_METRICS = ['trustworthiness', 'continuity', 'knn_overlap'];
  * suggested by Steinley (2004), "Properties of the Hubert–Arabie adjusted
  * Rand index", Psychological Methods 9(3) (values recalled from the paper).
  */
-const ARI_HELD = 0.8;
-const ARI_PARTLY = 0.65;
+const ARI_HELD = AGREEMENT_BANDS.good;
+const ARI_PARTLY = AGREEMENT_BANDS.moderate;
 
 export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string, Embedding>): ReportModel {
   const ds = results.dataset;
@@ -431,6 +432,7 @@ function unrankedReason(s: SettingRecord, runs: readonly RunRecord[]): string {
   if (s.stability.identical_maps) return 'every seed gave the same map, so seeds tested nothing';
   const mine = runs.filter((r) => r.setting === s.id);
   if (mine.length > 0 && mine.every((r) => r.status === 'failed')) return 'every run of this setting failed';
+  if (s.method === 'pca') return 'the linear baseline: PCA is deterministic, so seeds do not apply';
   return 'too few successful runs to score it';
 }
 
