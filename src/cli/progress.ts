@@ -47,7 +47,8 @@ export function consoleProgress(opts: ProgressOptions): ProgressSink {
       started = now();
       estimate = est;
       lastLine = 0;
-      if (!tty) stream.write(`${name}: started${total > 1 ? ` (${total} to do${est !== undefined ? `, estimate ${fmtTime(est)}` : ''})` : ''}\n`);
+      // Single-step stages say nothing until they finish, so a quick failure prints only its error.
+      if (!tty && total > 1) stream.write(`${name}: started (${total} to do${est !== undefined ? `, estimate ${fmtTime(est)}` : ''})\n`);
     },
     tick(done, note) {
       if (opts.quiet) return;

@@ -86,17 +86,17 @@ export function estimateRunSeconds(method: MethodName, params: MethodParams, n: 
   if (method === 'umap') {
     const epochs = n <= 2500 ? 500 : n <= 5000 ? 400 : n <= 7500 ? 300 : 200;
     const k = params.nNeighbors ?? 15;
-    return 0.05 + COST.umapPerEdgeEpoch * n * k * epochs + COST.umapGraphPerEdge * n * k;
+    return 0.05 + COST.umapPerEdgeEpoch * n * k * epochs + COST.umapPerPoint * n;
   }
   return 0.01 + COST.pcaPerCell * n;
 }
 
 /** Cost constants (seconds per unit of work). */
 export const COST = {
-  tsnePerNlognIter: 1.5e-7,
+  tsnePerNlognIter: 1.1e-7,
   tsnePerEdgeIter: 1.5e-9,
-  umapPerEdgeEpoch: 1.3e-8,
-  umapGraphPerEdge: 8e-6,
+  umapPerEdgeEpoch: 2.2e-7,
+  umapPerPoint: 1.7e-3,
   pcaPerCell: 1e-6,
   knnPerPairDim: 1.2e-9,
   scorePerRun: 0.05,
