@@ -7,7 +7,7 @@
 import yargs, { type Argv } from 'yargs';
 import { InputError } from '../core/errors.js';
 import { VERSION } from '../core/version.js';
-import { COMMON_FLAGS, DATA_FLAGS, SWEEP_FLAGS } from './options.js';
+import { COMMON_FLAGS, DATA_FLAGS, SCORE_DATA_FLAGS, SWEEP_FLAGS } from './options.js';
 
 export const EXIT = { ok: 0, internal: 1, input: 2 } as const;
 
@@ -65,7 +65,7 @@ export function buildParser(args: string[]): Argv {
           .positional('data', { type: 'string' })
           .positional('embedding', { type: 'string', describe: 'CSV with columns x,y' })
           .options({
-            ...DATA_FLAGS,
+            ...SCORE_DATA_FLAGS,
             k: { type: 'number', default: 15, describe: 'neighbourhood size' },
             against: { type: 'string', describe: 'a second embedding of the same rows: adds procrustes_disparity and knn_overlap_between' },
             json: { type: 'boolean', describe: 'print JSON instead of a table' },

@@ -17,6 +17,9 @@ export const DATA_FLAGS: Record<string, Options> = {
   'pca-dims': { type: 'string', describe: "principal components kept before embedding: a number, 'none', or 'auto' (50 when there are more columns)" },
 };
 
+/** `score` measures against the features before PCA, so it takes no --pca-dims. */
+export const SCORE_DATA_FLAGS: Record<string, Options> = Object.fromEntries(Object.entries(DATA_FLAGS).filter(([k]) => k !== 'pca-dims'));
+
 export const SWEEP_FLAGS: Record<string, Options> = {
   sweep: { type: 'string', describe: 'sweep file (YAML); flags override its keys' },
   methods: { type: 'string', describe: 'comma-separated methods: tsne,umap,pca (the PCA baseline is always added)' },

@@ -103,8 +103,15 @@ export const COST = {
 };
 
 /** Whole-sweep estimate: one-off neighbour search, then runs spread over the workers. */
-export function estimateSweepSeconds(runs: RunSpec[], n: number, d: number, workers: number, kMax: number): { total: number; neighbours: number; runs: number } {
-  const neighbours = COST.knnPerPairDim * n * n * d + 1e-7 * n * kMax;
+export function estimateSweepSeconds(
+  runs: RunSpec[],
+  n: number,
+  d: number,
+  workers: number,
+  kMax: number,
+  dReference: number = d,
+): { total: number; neighbours: number; runs: number } {
+  const neighbours = COST.knnPerPairDim * n * n * (d + (dReference !== d ? dReference : 0)) + 1e-7 * n * kMax;
   const perRun = runs.map((r) => estimateRunSeconds(r.method, r.params, n) + COST.scorePerRun * (n / 1000));
   // Longest-first greedy assignment to workers, as the pool roughly behaves.
   const loads = new Array<number>(Math.max(1, workers)).fill(0);

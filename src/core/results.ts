@@ -89,6 +89,8 @@ export interface ResultsJson {
       /** Explained-variance ratio of each kept principal component (empty without PCA). */
       explained_variance_ratio: number[];
       input_dims: number;
+      /** The space trustworthiness, continuity and kNN overlap are measured against. */
+      scored_against: string;
     };
     /** Label of each row (for colouring), or null. */
     labels: string[] | null;

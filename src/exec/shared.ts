@@ -13,6 +13,9 @@ export interface SharedContext {
   x: SharedArrayBuffer;
   knnIndices: SharedArrayBuffer;
   knnDistances: SharedArrayBuffer;
+  /** Scoring space; null when it is the same matrix as x. */
+  reference: { d: number; data: SharedArrayBuffer } | null;
+  knnReference: { k: number; indices: SharedArrayBuffer; distances: SharedArrayBuffer };
 }
 
 function share<T extends Float64Array | Int32Array>(a: T): SharedArrayBuffer {
@@ -30,11 +33,16 @@ export function toShared(ctx: RunContext): SharedContext {
     x: share(ctx.X.data),
     knnIndices: share(ctx.knn.indices),
     knnDistances: share(ctx.knn.distances),
+    reference: ctx.reference === ctx.X ? null : { d: ctx.reference.d, data: share(ctx.reference.data) },
+    knnReference: { k: ctx.knnReference.k, indices: share(ctx.knnReference.indices), distances: share(ctx.knnReference.distances) },
   };
 }
 
 export function fromShared(s: SharedContext): RunContext {
   const X: Matrix = { n: s.n, d: s.d, data: new Float64Array(s.x) };
   const knn: KnnGraph = { n: s.n, k: s.knnK, indices: new Int32Array(s.knnIndices), distances: new Float64Array(s.knnDistances) };
-  return { X, knn, k: s.k };
+  const reference: Matrix = s.reference === null ? X : { n: s.n, d: s.reference.d, data: new Float64Array(s.reference.data) };
+  const r = s.knnReference;
+  const knnReference: KnnGraph = { n: s.n, k: r.k, indices: new Int32Array(r.indices), distances: new Float64Array(r.distances) };
+  return { X, knn, k: s.k, reference, knnReference };
 }

@@ -18,6 +18,7 @@ import { seedStability } from '../metrics/stability.js';
 import { rankSettings } from '../rank/rank.js';
 import { chooseClusters } from './clusters.js';
 import { loadData, neighbours, preprocess, DATA_SEED } from './prepare.js';
+import { knnPrefix } from '../neighbors/exact.js';
 import type { ProgressSink } from './progress.js';
 import { runOne, type RunContext } from './run-one.js';
 
@@ -59,12 +60,14 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const prep = preprocess(dataset, warnings, cfg.data);
   const X = prep.X;
   const kMax = neighboursNeeded(settings, cfg.k, X.n);
-  const est = estimateSweepSeconds(runs, X.n, X.d, Math.max(1, req.workers), kMax);
+  const est = estimateSweepSeconds(runs, X.n, X.d, Math.max(1, req.workers), kMax, prep.reference.d);
   progress.stage('neighbours', 1, est.neighbours);
   const knn = neighbours(X, kMax);
+  // Scores measure faithfulness to the features before PCA; without PCA that is the same graph.
+  const knnReference = prep.reference === X ? knnPrefix(knn, cfg.k) : neighbours(prep.reference, cfg.k);
   progress.tick(1);
 
-  const ctx: RunContext = { X, knn, k: cfg.k };
+  const ctx: RunContext = { X, knn, k: cfg.k, reference: prep.reference, knnReference };
   const executor: Executor = req.workers > 0 ? new PoolExecutor(ctx, req.workers) : new InlineExecutor(ctx, runOne);
   progress.stage('runs', runs.length, est.runs);
   let done = 0;
@@ -111,6 +114,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
         pca_dims: prep.pcaDims,
         explained_variance_ratio: prep.explainedVarianceRatio,
         input_dims: dataset.matrix.d,
+        scored_against: cfg.data.scale ? 'the input features after z-scoring, before PCA' : 'the input features, before PCA',
       },
       labels: dataset.labels,
       ids: dataset.ids,

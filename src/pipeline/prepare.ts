@@ -15,8 +15,10 @@ import { zScore } from '../preprocess/scale.js';
 export interface Prepared {
   dataset: Dataset;
   warnings: string[];
-  /** Data as the methods see it. */
+  /** Data as the methods see it (after scaling and PCA). */
   X: Matrix;
+  /** Data the scores are measured against: after scaling, before PCA. */
+  reference: Matrix;
   /** PCA components kept, or null when PCA was not applied. */
   pcaDims: number | null;
   explainedVarianceRatio: number[];
@@ -32,6 +34,7 @@ export async function loadData(path: string, opts: DataOptions): Promise<{ datas
 export function preprocess(dataset: Dataset, warnings: string[], opts: DataOptions): Prepared {
   let X = dataset.matrix;
   if (opts.scale) X = zScore(X);
+  const reference = X;
   let dims: number | null = null;
   if (opts.pcaDims === 'auto') dims = X.d > DEFAULTS.pcaDimsAuto ? DEFAULTS.pcaDimsAuto : null;
   else if (opts.pcaDims !== null) {
@@ -47,7 +50,7 @@ export function preprocess(dataset: Dataset, warnings: string[], opts: DataOptio
     X = pca.scores;
     evr = Array.from(pca.explainedVarianceRatio);
   }
-  return { dataset, warnings, X, pcaDims: dims, explainedVarianceRatio: evr };
+  return { dataset, warnings, X, reference, pcaDims: dims, explainedVarianceRatio: evr };
 }
 
 export function neighbours(X: Matrix, k: number): KnnGraph {

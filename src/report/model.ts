@@ -139,6 +139,7 @@ export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string,
           ? `none (methods see all ${count(pre.input_dims)} dimensions)`
           : `${count(pre.input_dims)} → ${count(pre.pca_dims)} dimensions`,
     },
+    ...(pre.scored_against ? [{ term: 'scores measured against', text: pre.scored_against }] : []),
   ];
   const evr = pre.explained_variance_ratio;
   let varianceFigure: Figure | null = null;

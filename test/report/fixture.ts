@@ -139,6 +139,7 @@ export function makeFixture(options: FixtureOptions = {}): Fixture {
         pca_dims: 5,
         explained_variance_ratio: [0.4, 0.25, 0.15, 0.1, 0.05],
         input_dims: 12,
+        scored_against: 'the input features, before PCA',
       },
       labels,
       ids,

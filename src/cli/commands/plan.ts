@@ -18,7 +18,7 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
   const problems = rowLimitProblems(settings, n, sweep.k);
   if (problems.length > 0) throw new InputError('sweep.too-few-rows', `${dataset.path}: ${n} rows are too few for ${problems[0]}`);
   const kMax = neighboursNeeded(settings, sweep.k, n);
-  const est = estimateSweepSeconds(runs, n, dims, Math.max(1, workers), kMax);
+  const est = estimateSweepSeconds(runs, n, dims, Math.max(1, workers), kMax, dIn);
   const lines: string[] = [];
   for (const w of warnings) lines.push(`warning: ${w}`);
   lines.push(`data: ${dataset.path} — ${n} rows × ${dIn} columns${dims !== dIn ? `, PCA to ${dims}` : ''}${sweep.data.scale ? ', z-scored' : ''}`);

@@ -1,7 +1,7 @@
 /**
  * `steadyfold score <data> <embedding.csv>`: scores for an embedding made
- * anywhere. The data are used as loaded (optionally --scale / --pca-dims;
- * unlike `audit`, no PCA is applied unless asked), so the numbers match
+ * anywhere, against the features as loaded (z-scored with --scale), never
+ * after PCA — the same space `audit` scores in — so the numbers match
  * scikit-learn's trustworthiness on the same two tables.
  */
 import { InputError } from '../../core/errors.js';
@@ -14,14 +14,14 @@ import { loadData, preprocess } from '../../pipeline/prepare.js';
 import { sweepFromArgv } from './common.js';
 
 export async function run(argv: Record<string, unknown>): Promise<void> {
-  const cfg = await sweepFromArgv({ ...argv, k: undefined, 'pca-dims': argv['pca-dims'] ?? 'none' });
+  const cfg = await sweepFromArgv({ ...argv, k: undefined, 'pca-dims': 'none' });
   const k = Number(argv.k);
   const { dataset, warnings } = await loadData(String(argv.data), cfg.data);
   for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
   if (dataset.droppedRows > 0) {
     throw new InputError('score.dropped-rows', `${dataset.path}: ${dataset.droppedRows} rows were dropped, so rows no longer line up with the embedding; fix the missing values instead of --missing drop`);
   }
-  const X = preprocess(dataset, warnings, cfg.data).X;
+  const X = preprocess(dataset, warnings, cfg.data).reference;
   const embPath = String(argv.embedding);
   const emb = await readEmbeddingCsv(embPath);
   if (emb.n !== X.n) throw new InputError('score.row-count', `${embPath}: has ${emb.n} rows but ${dataset.path} has ${X.n}; the embedding must have one row per data row, in the same order`);
