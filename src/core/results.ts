@@ -17,6 +17,24 @@ export interface RunMetrics {
   knn_overlap: number | null;
   /** Exact KL(P‖Q) of the returned t-SNE embedding; absent for other methods. */
   kl_divergence?: number | null;
+  /** Area under R_NX(K) against log K, weights 1/K (Lee, Peluffo-Ordóñez & Verleysen 2015). */
+  auc_rnx?: number | null;
+  /** Spearman correlation of pairwise distances, data vs map (all pairs or a seeded sample, see dataset.scoring). */
+  distance_spearman?: number | null;
+  /** Spearman correlation of distances between label/cluster centroids, data vs map. */
+  centroid_spearman?: number | null;
+  /** Pearson correlation of log local radius, data vs map (Narayan, Berger & Cho 2021). */
+  density_correlation?: number | null;
+  /** Silhouette of the labels in the map (only with --label). */
+  label_silhouette?: number | null;
+  /** Leave-one-out kNN label accuracy in the map (only with --label). */
+  label_knn_accuracy?: number | null;
+}
+
+/** A curve sampled at neighbourhood sizes K. */
+export interface Curve {
+  K: number[];
+  values: number[];
 }
 
 export interface RunRecord {
@@ -32,6 +50,10 @@ export interface RunRecord {
   /** Path of the embedding CSV relative to results.json, or null when the run failed. */
   embedding: string | null;
   metrics: RunMetrics;
+  /** R_NX(K) at log-spaced K (for the curve figure). */
+  rnx_curve?: Curve | null;
+  /** Number of rows this run embedded (less than dataset.n when rows were resampled). */
+  rows?: number;
 }
 
 export interface StabilityRecord {
@@ -46,6 +68,35 @@ export interface StabilityRecord {
   pairs: number;
   /** True when every seed produced the same map (seeds tested nothing). */
   identical_maps: boolean;
+  /** What differed between the runs of this setting, e.g. ["seed: random initialisation", "row resample 0.9"]. */
+  perturbations?: string[];
+  /** Cluster-wise stability (Hennig 2007): each cluster of the first seed's k-means partition, best-match Jaccard in the other seeds. */
+  clusters?: ClusterStability[];
+  /** Per-point stability summary; the full per-point values are in `points_file`. */
+  points?: PointStabilitySummary | null;
+}
+
+export interface ClusterStability {
+  /** Cluster number in the first seed's k-means partition (0-based, numbered by first appearance). */
+  cluster: number;
+  size: number;
+  /** Mean over the other seeds of the best-match Jaccard similarity. */
+  mean_jaccard: number;
+  /** Hennig's reading: 'dissolved' (≤ 0.5), 'not trustworthy' (< 0.6), 'doubtful' (0.6–0.75), 'stable' (≥ 0.75), 'highly stable' (≥ 0.85). */
+  reading: string;
+  /** Most common label among its points, when labels exist. */
+  majority_label?: string | null;
+}
+
+export interface PointStabilitySummary {
+  /** Mean over points of the mean Jaccard overlap of each point's k-neighbourhood across seed pairs. */
+  mean: number;
+  /** 10th percentile over points. */
+  p10: number;
+  /** The least stable points, worst first. */
+  least_stable: Array<{ row: number; id: string; label: string | null; value: number }>;
+  /** CSV (row,id,stability) with one line per point, relative to results.json. */
+  points_file: string;
 }
 
 export interface SettingRecord {
@@ -96,6 +147,15 @@ export interface ResultsJson {
     labels: string[] | null;
     /** Id of each row, or null (then ids are 1-based row numbers). */
     ids: string[] | null;
+    /** How the costlier scores were computed (sample sizes). */
+    scoring?: {
+      /** Rows used as query points for the co-ranking curves (all rows up to a limit, else a seeded sample). */
+      rnx_rows: number;
+      /** Pairs used for the distance Spearman correlation. */
+      distance_pairs: number;
+      /** Whether the distance pairs are all pairs (false: a seeded sample). */
+      distance_all_pairs: boolean;
+    };
   };
   sweep: {
     k: number;
@@ -104,6 +164,12 @@ export interface ResultsJson {
     seeds: number[];
     rank_by: string;
     workers: number;
+    /** Fraction of rows each run sees (1 = all rows; below 1 a seeded resample per seed). */
+    resample?: number;
+    /** Seconds the whole audit took (wall clock). */
+    seconds?: number;
+    /** The time `plan` estimated for it. */
+    estimated_seconds?: number;
   };
   runs: RunRecord[];
   settings: SettingRecord[];
