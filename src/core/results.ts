@@ -147,6 +147,11 @@ export interface ResultsJson {
     labels: string[] | null;
     /** Id of each row, or null (then ids are 1-based row numbers). */
     ids: string[] | null;
+    /**
+     * A seeded sample of row pairs with their distance in the scored space,
+     * for Shepard-style figures (map distances come from the embeddings).
+     */
+    distance_sample?: { i: number[]; j: number[]; distance: number[] };
     /** How the costlier scores were computed (sample sizes). */
     scoring?: {
       /** Rows used as query points for the co-ranking curves (all rows up to a limit, else a seeded sample). */
