@@ -24,7 +24,10 @@ export const SWEEP_FLAGS: Record<string, Options> = {
   sweep: { type: 'string', describe: 'sweep file (YAML); flags override its keys' },
   methods: { type: 'string', describe: 'comma-separated methods: tsne,umap,pca (the PCA baseline is always added)' },
   perplexity: { type: 'string', describe: 't-SNE perplexities, e.g. 10,30,50' },
-  init: { type: 'string', describe: 't-SNE initialisations: pca,random' },
+  init: { type: 'string', describe: 'initialisations for both methods: pca, spectral, random (e.g. pca,random)' },
+  'tsne-init': { type: 'string', describe: 't-SNE initialisations only (default pca)' },
+  'umap-init': { type: 'string', describe: 'UMAP initialisations only (default spectral)' },
+  resample: { type: 'number', describe: 'fraction of rows each seed embeds, e.g. 0.9 (default 1: all rows); stability is then measured on shared rows' },
   iterations: { type: 'string', describe: 't-SNE iterations (default 1000)' },
   neighbors: { type: 'string', describe: 'UMAP neighbour counts, e.g. 10,30' },
   'min-dist': { type: 'string', describe: 'UMAP minimum distances, e.g. 0.1,0.5' },
@@ -71,7 +74,9 @@ export function toOverrides(argv: Record<string, unknown>): SweepOverrides {
   };
   set(['methods'], list('methods', argv.methods));
   set(['tsne', 'perplexity'], numbers('perplexity', argv.perplexity));
-  set(['tsne', 'init'], list('init', argv.init));
+  set(['tsne', 'init'], list('tsne-init', argv['tsne-init']) ?? list('init', argv.init));
+  set(['umap', 'init'], list('umap-init', argv['umap-init']) ?? list('init', argv.init));
+  set(['resample'], argv.resample);
   set(['tsne', 'iterations'], numbers('iterations', argv.iterations));
   set(['umap', 'n_neighbors'], numbers('neighbors', argv.neighbors));
   set(['umap', 'min_dist'], numbers('min-dist', argv['min-dist']));

@@ -44,7 +44,8 @@ function combos(method: MethodName, cfg: SweepConfig): MethodParams[] {
   }
   if (method === 'umap') {
     const out: MethodParams[] = [];
-    for (const nNeighbors of cfg.umap.nNeighbors) for (const minDist of cfg.umap.minDist) out.push({ nNeighbors, minDist });
+    for (const nNeighbors of cfg.umap.nNeighbors)
+      for (const minDist of cfg.umap.minDist) for (const init of cfg.umap.init) out.push({ nNeighbors, minDist, init });
     return out;
   }
   return [{}];

@@ -21,7 +21,7 @@ export interface DataOptions {
 export interface SweepConfig {
   methods: MethodName[];
   tsne: { perplexity: number[]; init: string[]; iterations: number[] };
-  umap: { nNeighbors: number[]; minDist: number[] };
+  umap: { nNeighbors: number[]; minDist: number[]; init: string[] };
   seeds: number[];
   /** Neighbourhood size used by the scores. */
   k: number;
@@ -29,6 +29,12 @@ export interface SweepConfig {
   clusters: number | null;
   /** 'composite' or one metric name. */
   rankBy: string;
+  /**
+   * Fraction of rows each run sees; 1 = all rows. Below 1, seed s embeds a
+   * seeded random subset of rows (the same subset for every setting), and
+   * stability is measured on the rows two runs share.
+   */
+  resample: number;
   data: DataOptions;
 }
 
@@ -36,7 +42,8 @@ export interface SweepConfig {
 export interface SweepOverrides {
   methods?: MethodName[];
   tsne?: { perplexity?: number[]; init?: string[]; iterations?: number[] };
-  umap?: { n_neighbors?: number[]; min_dist?: number[] };
+  umap?: { n_neighbors?: number[]; min_dist?: number[]; init?: string[] };
+  resample?: number;
   seeds?: number | number[];
   k?: number;
   clusters?: number;
@@ -66,12 +73,16 @@ const numList = (min: number, exclusive: boolean, int: boolean): z.ZodType<numbe
 };
 const oneOrList = <T extends z.ZodTypeAny>(s: T) => z.union([s, z.array(s).min(1)]);
 
+function initList(method: MethodName) {
+  const init = METHOD_PARAMS[method].find((p) => p.key === 'init')!;
+  return z.preprocess(asList, z.array(z.enum(init.choices as [string, ...string[]])).min(1)).optional();
+}
+
 function tsneSchema() {
-  const init = METHOD_PARAMS.tsne.find((p) => p.key === 'init')!;
   return z
     .object({
       perplexity: z.preprocess(asList, numList(1, false, false)).optional(),
-      init: z.preprocess(asList, z.array(z.enum(init.choices as [string, ...string[]])).min(1)).optional(),
+      init: initList('tsne'),
       iterations: z.preprocess(asList, numList(251, false, true)).optional(),
     })
     .strict();
@@ -89,6 +100,7 @@ export const overridesSchema = z
       .object({
         n_neighbors: z.preprocess(asList, numList(2, false, true)).optional(),
         min_dist: z.preprocess(asList, z.array(z.number().gte(0).lte(1)).min(1)).optional(),
+        init: initList('umap'),
       })
       .strict()
       .optional(),
@@ -96,6 +108,7 @@ export const overridesSchema = z
     k: z.number().int().gte(1).optional(),
     clusters: z.number().int().gte(2).optional(),
     rank_by: z.enum(RANKABLE).optional(),
+    resample: z.number().gt(0).lte(1).optional(),
     data: z
       .object({
         label: z.string().min(1).optional(),
@@ -170,7 +183,9 @@ export function resolveSweep(file: SweepOverrides | null, flags: SweepOverrides)
     umap: {
       nNeighbors: pick(f.umap?.n_neighbors, flags.umap?.n_neighbors, [def('umap', 'nNeighbors') as number]),
       minDist: pick(f.umap?.min_dist, flags.umap?.min_dist, [def('umap', 'minDist') as number]),
+      init: pick(f.umap?.init, flags.umap?.init, [def('umap', 'init') as string]),
     },
+    resample: pick(f.resample, flags.resample, 1),
     seeds,
     k: pick(f.k, flags.k, DEFAULTS.k),
     clusters: pick<number | null>(f.clusters, flags.clusters, null),
@@ -223,6 +238,7 @@ function describePath(p: Array<string | number>): string {
 function flagName(p: Array<string | number>): string {
   const keys = p.filter((s) => typeof s === 'string') as string[];
   const last = keys[keys.length - 1] ?? 'value';
+  if (last === 'init') return `${keys[0]}-init`;
   const map: Record<string, string> = { n_neighbors: 'neighbors', min_dist: 'min-dist', rank_by: 'rank-by', pca_dims: 'pca-dims' };
   return map[last] ?? last;
 }

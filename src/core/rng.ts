@@ -102,3 +102,19 @@ export function deriveSeed(base: number, ...parts: Array<string | number>): numb
   h ^= h >>> 16;
   return h >>> 0;
 }
+
+/**
+ * m distinct indices from 0..n−1, drawn uniformly without replacement
+ * (partial Fisher–Yates), returned in ascending order.
+ */
+export function sampleIndices(n: number, m: number, rng: Rng): Int32Array {
+  if (!(Number.isInteger(m) && m >= 0 && m <= n)) throw new RangeError(`cannot draw ${m} of ${n} indices`);
+  const idx = Int32Array.from({ length: n }, (_, i) => i);
+  for (let i = 0; i < m; i++) {
+    const j = i + rng.int(n - i);
+    const t = idx[i];
+    idx[i] = idx[j];
+    idx[j] = t;
+  }
+  return idx.slice(0, m).sort();
+}

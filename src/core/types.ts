@@ -48,6 +48,11 @@ export interface KnnGraph {
 export interface Embedding {
   readonly n: number;
   readonly data: Float64Array;
+  /**
+   * The dataset rows (0-based, ascending) the points stand for, when the run
+   * embedded a subset of the rows; absent when it embedded every row in order.
+   */
+  readonly rows?: Int32Array;
 }
 
 export type MethodName = 'tsne' | 'umap' | 'pca';

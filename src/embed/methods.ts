@@ -33,7 +33,7 @@ export const METHOD_PARAMS: Record<MethodName, readonly ParamDef[]> = {
       source: 'van der Maaten & Hinton 2008; scikit-learn 1.2 default', min: 1, idToken: 'p',
     },
     {
-      key: 'init', fileKey: 'init', flag: 'init', kind: 'choice', default: 'pca', choices: ['pca', 'random'],
+      key: 'init', fileKey: 'init', flag: 'init', kind: 'choice', default: 'pca', choices: ['pca', 'spectral', 'random'],
       source: 'Kobak & Linderman 2021 (informative initialisation); scikit-learn 1.2 default', idToken: '',
     },
     {
@@ -49,6 +49,10 @@ export const METHOD_PARAMS: Record<MethodName, readonly ParamDef[]> = {
     {
       key: 'minDist', fileKey: 'min_dist', flag: 'min-dist', kind: 'number', default: 0.1, min: 0, max: 1,
       source: 'McInnes, Healy & Melville 2018; umap-js 1.4 default', idToken: 'd',
+    },
+    {
+      key: 'init', fileKey: 'init', flag: 'umap-init', kind: 'choice', default: 'spectral', choices: ['spectral', 'pca', 'random'],
+      source: 'McInnes, Healy & Melville 2018 (spectral initialisation, umap-learn default); Kobak & Linderman 2021', idToken: '',
     },
   ],
   pca: [],

@@ -27,20 +27,26 @@ function formatCoordinate(v: number): string {
   return v === 0 && 1 / v < 0 ? '-0' : String(v);
 }
 
-/** The CSV text of an embedding (header `x,y`, LF line ends, trailing newline). */
+/**
+ * The CSV text of an embedding (header `x,y`, LF line ends, trailing newline).
+ * An embedding of a subset of rows gets a leading `row` column with the
+ * 1-based data row number of each point (header `row,x,y`).
+ */
 export function formatEmbeddingCsv(e: Embedding): string {
   if (e.data.length !== 2 * e.n) {
     throw new InternalError(`embedding has ${e.data.length} coordinates for ${e.n} points; expected ${2 * e.n}`);
   }
+  const rows = e.rows;
+  if (rows && rows.length !== e.n) throw new InternalError(`embedding lists ${rows.length} rows for ${e.n} points`);
   const parts: string[] = new Array(e.n + 1);
-  parts[0] = 'x,y\n';
+  parts[0] = rows ? 'row,x,y\n' : 'x,y\n';
   for (let i = 0; i < e.n; i++) {
     const x = e.data[2 * i];
     const y = e.data[2 * i + 1];
     if (!Number.isFinite(x) || !Number.isFinite(y)) {
       throw new InternalError(`embedding point ${i} has a non-finite coordinate (${x}, ${y}); a failed run must not be written`);
     }
-    parts[i + 1] = `${formatCoordinate(x)},${formatCoordinate(y)}\n`;
+    parts[i + 1] = `${rows ? `${rows[i] + 1},` : ''}${formatCoordinate(x)},${formatCoordinate(y)}\n`;
   }
   return parts.join('');
 }
@@ -72,6 +78,8 @@ export async function readEmbeddingCsv(path: string): Promise<Embedding> {
   for (let j = 0; j < reader.count; j++) names.push(reader.isQuoted(j) ? reader.field(j) : reader.field(j).trim());
   const [cx, cy] = pickColumns(names, path, reader.line);
   const ncols = names.length;
+  const cr = ncols === 3 && names.indexOf('row') !== -1 ? names.indexOf('row') : -1;
+  const rowList: number[] = [];
   let data = new Float64Array(2048);
   let n = 0;
   while (reader.next()) {
@@ -89,9 +97,20 @@ export async function readEmbeddingCsv(path: string): Promise<Embedding> {
     }
     data[2 * n] = coordinate(reader, cx, names[cx], path);
     data[2 * n + 1] = coordinate(reader, cy, names[cy], path);
+    if (cr >= 0) {
+      const r = reader.number(cr);
+      const prev = rowList.length > 0 ? rowList[rowList.length - 1] : -1;
+      if (!Number.isInteger(r) || r < 1 || r - 1 <= prev) {
+        throw new InputError(
+          `${P}.bad-row`,
+          `${path}:${reader.lineOfField(cr)}:${cr + 1}: row number ${quoteText(reader.field(cr))} is not allowed; the "row" column holds 1-based data row numbers in increasing order`,
+        );
+      }
+      rowList.push(r - 1);
+    }
     n++;
   }
-  return { n, data: data.slice(0, 2 * n) };
+  return cr >= 0 ? { n, data: data.slice(0, 2 * n), rows: Int32Array.from(rowList) } : { n, data: data.slice(0, 2 * n) };
 }
 
 function pickColumns(names: string[], path: string, line: number): [number, number] {

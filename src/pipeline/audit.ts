@@ -7,14 +7,14 @@ import os from 'node:os';
 import { InputError } from '../core/errors.js';
 import { RESULTS_FORMAT, type ResultsJson, type RunRecord, type StabilityRecord } from '../core/results.js';
 import { Rng, deriveSeed } from '../core/rng.js';
-import type { Embedding, RunSpec } from '../core/types.js';
+import type { Embedding, RunSpec, SettingSpec } from '../core/types.js';
 import { VERSION } from '../core/version.js';
 import { expandGrid, neighboursNeeded, rowLimitProblems, estimateSweepSeconds } from '../config/plan.js';
 import type { SweepConfig } from '../config/sweep.js';
 import { paramsForFile } from '../embed/methods.js';
 import { InlineExecutor, PoolExecutor } from '../exec/pool.js';
 import type { Executor, RunOutcome } from '../exec/executor.js';
-import { seedStability } from '../metrics/stability.js';
+import { settingStability } from './stability.js';
 import { rankSettings } from '../rank/rank.js';
 import { chooseClusters } from './clusters.js';
 import { loadData, neighbours, preprocess, DATA_SEED } from './prepare.js';
@@ -46,6 +46,7 @@ export function defaultWorkers(): number {
 
 export async function runAudit(req: AuditRequest, progress: ProgressSink): Promise<AuditOutput> {
   const cfg = req.sweep;
+  const started = performance.now();
   progress.stage('loading', 1);
   const { dataset, warnings } = await loadData(req.dataPath, cfg.data);
   for (const w of warnings) progress.warn(w);
@@ -67,7 +68,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const knnReference = prep.reference === X ? knnPrefix(knn, cfg.k) : neighbours(prep.reference, cfg.k);
   progress.tick(1);
 
-  const ctx: RunContext = { X, knn, k: cfg.k, reference: prep.reference, knnReference };
+  const ctx: RunContext = { X, knn, k: cfg.k, reference: prep.reference, knnReference, resample: cfg.resample };
   const executor: Executor = req.workers > 0 ? new PoolExecutor(ctx, req.workers) : new InlineExecutor(ctx, runOne);
   progress.stage('runs', runs.length, est.runs);
   let done = 0;
@@ -90,7 +91,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const inputs = settings.map((spec, si) => {
     const mine = records.filter((r) => r.setting === spec.id);
     const embs = mine.filter((r) => r.status === 'ok').map((r) => embeddings.get(r.id)!);
-    const stability = stabilityOf(embs, cfg.k, choice.clusters, spec.id);
+    const stability = stabilityOf(embs, X.n, cfg.k, choice.clusters, spec.id, perturbations(spec, cfg.resample));
     progress.tick(si + 1, spec.id);
     return { spec, runs: mine, stability };
   });
@@ -126,6 +127,9 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
       seeds: cfg.seeds,
       rank_by: cfg.rankBy,
       workers: req.workers,
+      resample: cfg.resample,
+      estimated_seconds: Math.round(est.total * 10) / 10,
+      seconds: Math.round((performance.now() - started) / 100) / 10,
     },
     runs: records,
     settings: settingRecords,
@@ -146,10 +150,12 @@ function toRecord(spec: RunSpec, o: RunOutcome, n: number, embeddings: Map<strin
     return { ...base, seconds: 0, status: 'failed', error: o.error, embedding: null, metrics: { trustworthiness: null, continuity: null, knn_overlap: null } };
   }
   const out = o.output;
-  embeddings.set(spec.id, { n, data: out.embedding });
+  embeddings.set(spec.id, out.rows ? { n: out.rows.length, data: out.embedding, rows: out.rows } : { n, data: out.embedding });
   const metrics: RunRecord['metrics'] = { ...out.metrics };
   if (spec.method === 'tsne') metrics.kl_divergence = out.info.kl_divergence ?? null;
-  return { ...base, seconds: round3(out.seconds), status: 'ok', embedding: embeddingPath(spec.id), metrics };
+  const rec: RunRecord = { ...base, seconds: round3(out.seconds), status: 'ok', embedding: embeddingPath(spec.id), metrics };
+  if (out.rows) rec.rows = out.rows.length;
+  return rec;
 }
 
 export function embeddingPath(runId: string): string {
@@ -160,20 +166,32 @@ function round3(x: number): number {
   return Math.round(x * 1000) / 1000;
 }
 
-function stabilityOf(embs: Embedding[], k: number, clusters: number, settingId: string): StabilityRecord {
-  if (embs.length < 2) {
-    return { procrustes_mean: null, procrustes_max: null, seed_knn_overlap: null, ari_mean: null, pairs: 0, identical_maps: false };
+/** What differs between the runs of a setting, in words for the report. */
+export function perturbations(spec: SettingSpec, resample: number): string[] {
+  if (spec.method === 'pca' || spec.seeds.length < 2) return [];
+  const out: string[] = [];
+  const init = spec.params.init;
+  if (spec.method === 'tsne') {
+    out.push(init === 'random' ? 'seed: random initialisation' : `seed: nothing (${init} initialisation and exact neighbours are deterministic)`);
+  } else {
+    out.push(`seed: negative sampling${init === 'random' ? ' and random initialisation' : `, ${init} initialisation (tiny noise only)`}`);
   }
-  const s = seedStability(
-    embs.map((e) => ({ n: e.n, d: 2, data: e.data })),
-    { k, clusters, rng: new Rng(deriveSeed(DATA_SEED, settingId, 'stability')) },
-  );
+  if (resample < 1) out.push(`row resample: each seed embeds a different ${Math.round(resample * 100)} % of the rows`);
+  return out;
+}
+
+function stabilityOf(embs: Embedding[], n: number, k: number, clusters: number, settingId: string, perturbed: string[]): StabilityRecord {
+  if (embs.length < 2) {
+    return { procrustes_mean: null, procrustes_max: null, seed_knn_overlap: null, ari_mean: null, pairs: 0, identical_maps: false, perturbations: perturbed };
+  }
+  const s = settingStability(embs, n, { k, clusters, rng: new Rng(deriveSeed(DATA_SEED, settingId, 'stability')) });
   return {
     procrustes_mean: s.procrustesMean,
     procrustes_max: s.procrustesMax,
     seed_knn_overlap: s.seedKnnOverlap,
     ari_mean: s.ariMean,
-    pairs: s.pairs,
+    pairs: s.pairs.length,
     identical_maps: s.identicalMaps,
+    perturbations: perturbed,
   };
 }

@@ -3,7 +3,7 @@
  * number, else the number of labels, else the count in 2..10 with the best
  * silhouette (Rousseeuw 1987) of k-means on the data itself.
  */
-import { Rng, deriveSeed } from '../core/rng.js';
+import { Rng, deriveSeed, sampleIndices } from '../core/rng.js';
 import type { Matrix } from '../core/types.js';
 import { selectRows } from '../core/matrix.js';
 import { kmeansLabels, silhouette } from '../metrics/clustering.js';
@@ -24,20 +24,7 @@ export function chooseClusters(X: Matrix, labels: string[] | null, labelColumn: 
     if (c >= 2 && c <= X.n / 2) return { clusters: c, source: `number of distinct labels in column '${labelColumn ?? 'label'}'` };
   }
   const rng = new Rng(deriveSeed(DATA_SEED, 'clusters'));
-  let rows: Int32Array;
-  if (X.n > SILHOUETTE_ROWS) {
-    // Partial Fisher–Yates: a seeded sample without replacement, sorted for locality.
-    const idx = Int32Array.from({ length: X.n }, (_, i) => i);
-    for (let i = 0; i < SILHOUETTE_ROWS; i++) {
-      const j = i + rng.int(X.n - i);
-      const t = idx[i];
-      idx[i] = idx[j];
-      idx[j] = t;
-    }
-    rows = idx.slice(0, SILHOUETTE_ROWS).sort();
-  } else {
-    rows = Int32Array.from({ length: X.n }, (_, i) => i);
-  }
+  const rows = X.n > SILHOUETTE_ROWS ? sampleIndices(X.n, SILHOUETTE_ROWS, rng) : Int32Array.from({ length: X.n }, (_, i) => i);
   const S = selectRows(X, rows);
   let best = 2;
   let bestScore = -Infinity;

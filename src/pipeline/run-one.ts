@@ -4,7 +4,8 @@
  * remote executor all call this same function.
  */
 import type { KnnGraph, Matrix, RunSpec } from '../core/types.js';
-import { embeddingAsMatrix } from '../core/matrix.js';
+import { embeddingAsMatrix, selectRows } from '../core/matrix.js';
+import { resampleRows } from './resample.js';
 import { embedOne, type EmbedContext, type Progress } from '../embed/run.js';
 import { knnOf, knnPrefix } from '../neighbors/exact.js';
 import { continuity, knnOverlap, trustworthiness } from '../metrics/neighbourhood.js';
@@ -19,10 +20,14 @@ export interface RunContext extends EmbedContext {
   reference: Matrix;
   /** Exact k nearest neighbours of `reference` (k columns). */
   knnReference: KnnGraph;
+  /** Fraction of rows each seed embeds (1 = all; see resample.ts). */
+  resample: number;
 }
 
 export interface RunOutput {
   id: string;
+  /** Dataset rows embedded (0-based, ascending) when the run saw a resample; absent for all rows. */
+  rows?: Int32Array;
   /** Interleaved x, y of every point in input order. */
   embedding: Float64Array;
   seconds: number;
@@ -30,8 +35,20 @@ export interface RunOutput {
   metrics: { trustworthiness: number; continuity: number; knn_overlap: number };
 }
 
-export function runOne(ctx: RunContext, spec: RunSpec, onProgress?: Progress): RunOutput {
+/** The context restricted to a subset of rows: neighbours recomputed exactly within the subset. */
+export function subsetContext(ctx: RunContext, rows: Int32Array): RunContext {
+  const X = selectRows(ctx.X, rows);
+  const knn = knnOf(X, Math.min(ctx.knn.k, X.n - 1));
+  const sameSpace = ctx.reference === ctx.X;
+  const reference = sameSpace ? X : selectRows(ctx.reference, rows);
+  const knnReference = sameSpace ? knnPrefix(knn, Math.min(ctx.k, knn.k)) : knnOf(reference, ctx.k);
+  return { X, knn, k: ctx.k, reference, knnReference, resample: 1 };
+}
+
+export function runOne(full: RunContext, spec: RunSpec, onProgress?: Progress): RunOutput {
   const t0 = performance.now();
+  const rows = resampleRows(full.X.n, full.resample, spec.seed);
+  const ctx = rows ? subsetContext(full, rows) : full;
   const { embedding, info } = embedOne(ctx, spec, onProgress);
   const seconds = (performance.now() - t0) / 1000;
   const Y = embeddingAsMatrix(embedding);
@@ -42,5 +59,7 @@ export function runOne(ctx: RunContext, spec: RunSpec, onProgress?: Progress): R
     continuity: continuity(ctx.reference, Y, ctx.k, { knnX, knnY }),
     knn_overlap: knnOverlap(knnX, knnY, ctx.k).fraction,
   };
-  return { id: spec.id, embedding: embedding.data, seconds, info, metrics };
+  const out: RunOutput = { id: spec.id, embedding: embedding.data, seconds, info, metrics };
+  if (rows) out.rows = rows;
+  return out;
 }

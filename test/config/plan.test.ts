@@ -10,7 +10,7 @@ describe('expandGrid', () => {
     const { settings, runs } = expandGrid(cfg({ methods: 'tsne,umap', perplexity: '10,30', neighbors: '10,30', 'min-dist': '0.1,0.5', seeds: '3' }));
     expect(settings.map((s) => s.id)).toEqual([
       'tsne-p10-pca', 'tsne-p30-pca',
-      'umap-n10-d0.1', 'umap-n10-d0.5', 'umap-n30-d0.1', 'umap-n30-d0.5',
+      'umap-n10-d0.1-spectral', 'umap-n10-d0.5-spectral', 'umap-n30-d0.1-spectral', 'umap-n30-d0.5-spectral',
       'pca',
     ]);
     expect(runs).toHaveLength(6 * 3 + 1);

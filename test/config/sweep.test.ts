@@ -36,7 +36,7 @@ describe('parseSweepFile', () => {
   it('names an unknown key and lists the allowed ones', () => {
     const e = inputError(() => parseSweepFile('s.yaml', 'umap:\n  neighbours: [10]\n'));
     expect(e.code).toBe('sweep.unknown-key');
-    expect(e.message).toBe("s.yaml:2:3: unknown key 'umap.neighbours'; allowed here: n_neighbors, min_dist");
+    expect(e.message).toBe("s.yaml:2:3: unknown key 'umap.neighbours'; allowed here: n_neighbors, min_dist, init");
   });
 
   it('rejects out-of-range values with the allowed range', () => {

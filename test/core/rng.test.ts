@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { Rng, deriveSeed } from '../../src/core/rng.js';
+import { Rng, deriveSeed, sampleIndices } from '../../src/core/rng.js';
 
 describe('Rng', () => {
   it('gives the same stream for the same seed and a different one for another seed', () => {
@@ -64,5 +64,23 @@ describe('deriveSeed', () => {
     expect(deriveSeed(1, 'tsne-p31', 'embed')).not.toBe(s);
     expect(deriveSeed(1, 'tsne-p30', 'init')).not.toBe(s);
     expect(deriveSeed(1, 'ab', 'c')).not.toBe(deriveSeed(1, 'a', 'bc'));
+  });
+});
+
+describe('sampleIndices', () => {
+  it('draws m distinct indices in ascending order, each index about equally often', () => {
+    const r = new Rng(5);
+    const counts = new Array(10).fill(0);
+    for (let t = 0; t < 5000; t++) {
+      const s = sampleIndices(10, 3, r);
+      expect(s).toHaveLength(3);
+      expect(s[0] < s[1] && s[1] < s[2]).toBe(true);
+      for (const i of s) counts[i]++;
+    }
+    for (const c of counts) expect(Math.abs(c - 1500)).toBeLessThan(150);
+  });
+
+  it('refuses to draw more than n', () => {
+    expect(() => sampleIndices(3, 4, new Rng(1))).toThrow(RangeError);
   });
 });

@@ -163,3 +163,27 @@ describe('readEmbeddingCsv', () => {
     expect(inf.err.message).toMatch(/:2:2: cell "Infinity" in column "y" is not a finite number; every coordinate must be a finite number$/);
   });
 });
+
+describe('embeddings of a subset of rows', () => {
+  it('write a 1-based row column and read it back', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'emb-rows-'));
+    const e = { n: 3, data: Float64Array.from([0.5, 1, -2, 3, 1 / 3, 4]), rows: Int32Array.from([0, 4, 9]) };
+    const file = join(dir, 'e.csv');
+    await writeEmbeddingCsv(file, e);
+    const lines = (await readFile(file, 'utf8')).split('\n');
+    expect(lines[0]).toBe('row,x,y');
+    expect(lines[2]).toBe('5,-2,3');
+    const back = await readEmbeddingCsv(file);
+    expect(Array.from(back.rows!)).toEqual([0, 4, 9]);
+    expect(Array.from(back.data)).toEqual(Array.from(e.data));
+    await rm(dir, { recursive: true, force: true });
+  });
+
+  it('refuse row numbers that are not increasing, naming line and column', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'emb-rows-'));
+    const file = join(dir, 'bad.csv');
+    await writeFile(file, 'row,x,y\n2,0,0\n2,1,1\n');
+    await expect(readEmbeddingCsv(file)).rejects.toThrow(/bad\.csv:3:1: row number "2" is not allowed/);
+    await rm(dir, { recursive: true, force: true });
+  });
+});
