@@ -10,6 +10,7 @@ export interface SharedContext {
   d: number;
   k: number;
   knnK: number;
+  resample: number;
   x: SharedArrayBuffer;
   knnIndices: SharedArrayBuffer;
   knnDistances: SharedArrayBuffer;
@@ -30,6 +31,7 @@ export function toShared(ctx: RunContext): SharedContext {
     d: ctx.X.d,
     k: ctx.k,
     knnK: ctx.knn.k,
+    resample: ctx.resample,
     x: share(ctx.X.data),
     knnIndices: share(ctx.knn.indices),
     knnDistances: share(ctx.knn.distances),
@@ -44,5 +46,5 @@ export function fromShared(s: SharedContext): RunContext {
   const reference: Matrix = s.reference === null ? X : { n: s.n, d: s.reference.d, data: new Float64Array(s.reference.data) };
   const r = s.knnReference;
   const knnReference: KnnGraph = { n: s.n, k: r.k, indices: new Int32Array(r.indices), distances: new Float64Array(r.distances) };
-  return { X, knn, k: s.k, reference, knnReference };
+  return { X, knn, k: s.k, reference, knnReference, resample: s.resample };
 }
