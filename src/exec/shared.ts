@@ -4,6 +4,7 @@
  */
 import type { KnnGraph, Matrix } from '../core/types.js';
 import type { RunContext } from '../pipeline/run-one.js';
+import type { ScoringIndex } from '../metrics/scoring.js';
 
 export interface SharedContext {
   n: number;
@@ -17,6 +18,8 @@ export interface SharedContext {
   /** Scoring space; null when it is the same matrix as x. */
   reference: { d: number; data: SharedArrayBuffer } | null;
   knnReference: { k: number; indices: SharedArrayBuffer; distances: SharedArrayBuffer };
+  /** Plain typed arrays; structured-cloned once per worker. */
+  scoring: ScoringIndex;
 }
 
 function share<T extends Float64Array | Int32Array>(a: T): SharedArrayBuffer {
@@ -37,6 +40,7 @@ export function toShared(ctx: RunContext): SharedContext {
     knnDistances: share(ctx.knn.distances),
     reference: ctx.reference === ctx.X ? null : { d: ctx.reference.d, data: share(ctx.reference.data) },
     knnReference: { k: ctx.knnReference.k, indices: share(ctx.knnReference.indices), distances: share(ctx.knnReference.distances) },
+    scoring: ctx.scoring,
   };
 }
 
@@ -46,5 +50,5 @@ export function fromShared(s: SharedContext): RunContext {
   const reference: Matrix = s.reference === null ? X : { n: s.n, d: s.reference.d, data: new Float64Array(s.reference.data) };
   const r = s.knnReference;
   const knnReference: KnnGraph = { n: s.n, k: r.k, indices: new Int32Array(r.indices), distances: new Float64Array(r.distances) };
-  return { X, knn, k: s.k, reference, knnReference, resample: s.resample };
+  return { X, knn, k: s.k, reference, knnReference, resample: s.resample, scoring: s.scoring };
 }

@@ -7,7 +7,7 @@ import os from 'node:os';
 import { InputError } from '../core/errors.js';
 import { RESULTS_FORMAT, type ResultsJson, type RunRecord, type StabilityRecord } from '../core/results.js';
 import { Rng, deriveSeed } from '../core/rng.js';
-import type { Embedding, RunSpec, SettingSpec } from '../core/types.js';
+import type { Dataset, Embedding, RunSpec, SettingSpec } from '../core/types.js';
 import { VERSION } from '../core/version.js';
 import { expandGrid, neighboursNeeded, rowLimitProblems, estimateSweepSeconds } from '../config/plan.js';
 import type { SweepConfig } from '../config/sweep.js';
@@ -15,6 +15,10 @@ import { paramsForFile } from '../embed/methods.js';
 import { InlineExecutor, PoolExecutor } from '../exec/pool.js';
 import type { Executor, RunOutcome } from '../exec/executor.js';
 import { settingStability } from './stability.js';
+import { labelCodes as codesOf, labelOrder } from './labels.js';
+import { kmeansLabels } from '../metrics/clustering.js';
+import { leastStablePoints, pointStabilityStats } from '../metrics/points.js';
+import { buildScoringIndex, distanceSample, scoringSummary } from '../metrics/scoring.js';
 import { rankSettings } from '../rank/rank.js';
 import { chooseClusters } from './clusters.js';
 import { loadData, neighbours, preprocess, DATA_SEED } from './prepare.js';
@@ -37,6 +41,8 @@ export interface AuditOutput {
   results: ResultsJson;
   /** run id → embedding, for successful runs. */
   embeddings: Map<string, Embedding>;
+  /** setting id → per-row point stability (NaN where not compared). */
+  points: Map<string, Float64Array>;
   warnings: string[];
 }
 
@@ -65,10 +71,19 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   progress.stage('neighbours', 1, est.neighbours);
   const knn = neighbours(X, kMax);
   // Scores measure faithfulness to the features before PCA; without PCA that is the same graph.
-  const knnReference = prep.reference === X ? knnPrefix(knn, cfg.k) : neighbours(prep.reference, cfg.k);
+  // Spare columns let subsets (--resample) find their neighbours without a rescan.
+  const refK = Math.min(X.n - 1, 2 * cfg.k + 10);
+  const knnReference = prep.reference === X && knn.k >= refK ? knnPrefix(knn, refK) : neighbours(prep.reference, refK);
   progress.tick(1);
 
-  const ctx: RunContext = { X, knn, k: cfg.k, reference: prep.reference, knnReference, resample: cfg.resample };
+  progress.stage('scoring index', 1);
+  const choice = chooseClusters(X, dataset.labels, cfg.data.label, cfg.clusters);
+  const labelCodes = dataset.labels ? codesOf(dataset.labels) : null;
+  const groups = labelCodes ? null : kmeansLabels(X, choice.clusters, new Rng(deriveSeed(DATA_SEED, 'groups')));
+  const scoring = buildScoringIndex(prep.reference, knnReference, { k: cfg.k, labels: labelCodes, groups, seed: DATA_SEED });
+  progress.tick(1);
+
+  const ctx: RunContext = { X, knn, k: cfg.k, reference: prep.reference, knnReference, resample: cfg.resample, scoring };
   const executor: Executor = req.workers > 0 ? new PoolExecutor(ctx, req.workers) : new InlineExecutor(ctx, runOne);
   progress.stage('runs', runs.length, est.runs);
   let done = 0;
@@ -84,14 +99,14 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   }
 
   const embeddings = new Map<string, Embedding>();
+  const points = new Map<string, Float64Array>();
   const records: RunRecord[] = runs.map((spec, i) => toRecord(spec, outcomes[i], X.n, embeddings));
 
-  progress.stage('scoring', settings.length);
-  const choice = chooseClusters(X, dataset.labels, cfg.data.label, cfg.clusters);
+  progress.stage('stability', settings.length);
   const inputs = settings.map((spec, si) => {
     const mine = records.filter((r) => r.setting === spec.id);
     const embs = mine.filter((r) => r.status === 'ok').map((r) => embeddings.get(r.id)!);
-    const stability = stabilityOf(embs, X.n, cfg.k, choice.clusters, spec.id, perturbations(spec, cfg.resample));
+    const stability = stabilityOf(embs, cfg.k, choice.clusters, spec.id, perturbations(spec, cfg.resample), labelCodes, dataset, points);
     progress.tick(si + 1, spec.id);
     return { spec, runs: mine, stability };
   });
@@ -119,6 +134,8 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
       },
       labels: dataset.labels,
       ids: dataset.ids,
+      scoring: scoringSummary(scoring),
+      distance_sample: distanceSample(scoring, SHEPARD_PAIRS),
     },
     sweep: {
       k: cfg.k,
@@ -134,7 +151,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
     runs: records,
     settings: settingRecords,
   };
-  return { results, embeddings, warnings };
+  return { results, embeddings, points, warnings };
 }
 
 function toRecord(spec: RunSpec, o: RunOutcome, n: number, embeddings: Map<string, Embedding>): RunRecord {
@@ -151,12 +168,13 @@ function toRecord(spec: RunSpec, o: RunOutcome, n: number, embeddings: Map<strin
   }
   const out = o.output;
   embeddings.set(spec.id, out.rows ? { n: out.rows.length, data: out.embedding, rows: out.rows } : { n, data: out.embedding });
-  const metrics: RunRecord['metrics'] = { ...out.metrics };
-  if (spec.method === 'tsne') metrics.kl_divergence = out.info.kl_divergence ?? null;
-  const rec: RunRecord = { ...base, seconds: round3(out.seconds), status: 'ok', embedding: embeddingPath(spec.id), metrics };
+  const rec: RunRecord = { ...base, seconds: round3(out.seconds), status: 'ok', embedding: embeddingPath(spec.id), metrics: out.metrics, rnx_curve: out.rnxCurve };
   if (out.rows) rec.rows = out.rows.length;
   return rec;
 }
+
+/** Pairs kept in results.json for Shepard-style figures. */
+const SHEPARD_PAIRS = 2000;
 
 export function embeddingPath(runId: string): string {
   return `embeddings/${runId}.csv`;
@@ -180,11 +198,39 @@ export function perturbations(spec: SettingSpec, resample: number): string[] {
   return out;
 }
 
-function stabilityOf(embs: Embedding[], n: number, k: number, clusters: number, settingId: string, perturbed: string[]): StabilityRecord {
+function stabilityOf(
+  embs: Embedding[],
+  k: number,
+  clusters: number,
+  settingId: string,
+  perturbed: string[],
+  labelCodes: Int32Array | null,
+  dataset: Dataset,
+  points: Map<string, Float64Array>,
+): StabilityRecord {
   if (embs.length < 2) {
     return { procrustes_mean: null, procrustes_max: null, seed_knn_overlap: null, ari_mean: null, pairs: 0, identical_maps: false, perturbations: perturbed };
   }
-  const s = settingStability(embs, n, { k, clusters, rng: new Rng(deriveSeed(DATA_SEED, settingId, 'stability')) });
+  const n = dataset.matrix.n;
+  const s = settingStability(embs, n, { k, clusters, rng: new Rng(deriveSeed(DATA_SEED, settingId, 'stability')), labels: labelCodes });
+  const labelText = dataset.labels ? labelOrder(dataset.labels) : null;
+  const idOf = (row: number): string => (dataset.ids ? dataset.ids[row] : String(row + 1));
+  let pointSummary: StabilityRecord['points'] = null;
+  if (!s.identicalMaps && s.points.some((v) => Number.isFinite(v))) {
+    points.set(settingId, s.points);
+    const st = pointStabilityStats(s.points);
+    pointSummary = {
+      mean: st.mean,
+      p10: st.p10,
+      least_stable: leastStablePoints(s.points, LEAST_STABLE_LISTED).map((p) => ({
+        row: p.row + 1,
+        id: idOf(p.row),
+        label: dataset.labels ? dataset.labels[p.row] : null,
+        value: p.value,
+      })),
+      points_file: pointsPath(settingId),
+    };
+  }
   return {
     procrustes_mean: s.procrustesMean,
     procrustes_max: s.procrustesMax,
@@ -193,5 +239,22 @@ function stabilityOf(embs: Embedding[], n: number, k: number, clusters: number, 
     pairs: s.pairs.length,
     identical_maps: s.identicalMaps,
     perturbations: perturbed,
+    clusters: s.clusters
+      .filter((c) => Number.isFinite(c.meanJaccard))
+      .map((c) => ({
+        cluster: c.cluster,
+        size: c.size,
+        mean_jaccard: c.meanJaccard,
+        reading: c.reading,
+        majority_label: labelText && c.majorityLabel !== null ? labelText[c.majorityLabel] : null,
+      })),
+    points: pointSummary,
   };
+}
+
+/** How many of the least stable points results.json lists per setting. */
+const LEAST_STABLE_LISTED = 20;
+
+export function pointsPath(settingId: string): string {
+  return `points/${settingId}.csv`;
 }

@@ -9,6 +9,13 @@ import { resampleRows } from './resample.js';
 import { embedOne, type EmbedContext, type Progress } from '../embed/run.js';
 import { knnOf, knnPrefix } from '../neighbors/exact.js';
 import { continuity, knnOverlap, trustworthiness } from '../metrics/neighbourhood.js';
+import { scoreStructure, type ScoringIndex } from '../metrics/scoring.js';
+import type { Curve, RunMetrics } from '../core/results.js';
+
+/** Undefined scores (a degenerate map) are recorded as null, never as NaN. */
+function finiteOrNull(x: number | null): number | null {
+  return x === null || !Number.isFinite(x) ? null : x;
+}
 
 export interface RunContext extends EmbedContext {
   /** Neighbourhood size for the scores. */
@@ -22,6 +29,8 @@ export interface RunContext extends EmbedContext {
   knnReference: KnnGraph;
   /** Fraction of rows each seed embeds (1 = all; see resample.ts). */
   resample: number;
+  /** Data-side part of the structure scores, built once per dataset. */
+  scoring: ScoringIndex;
 }
 
 export interface RunOutput {
@@ -32,7 +41,8 @@ export interface RunOutput {
   embedding: Float64Array;
   seconds: number;
   info: Record<string, number>;
-  metrics: { trustworthiness: number; continuity: number; knn_overlap: number };
+  metrics: RunMetrics;
+  rnxCurve: Curve;
 }
 
 /** The context restricted to a subset of rows: neighbours recomputed exactly within the subset. */
@@ -42,7 +52,7 @@ export function subsetContext(ctx: RunContext, rows: Int32Array): RunContext {
   const sameSpace = ctx.reference === ctx.X;
   const reference = sameSpace ? X : selectRows(ctx.reference, rows);
   const knnReference = sameSpace ? knnPrefix(knn, Math.min(ctx.k, knn.k)) : knnOf(reference, ctx.k);
-  return { X, knn, k: ctx.k, reference, knnReference, resample: 1 };
+  return { X, knn, k: ctx.k, reference, knnReference, resample: 1, scoring: ctx.scoring };
 }
 
 export function runOne(full: RunContext, spec: RunSpec, onProgress?: Progress): RunOutput {
@@ -54,12 +64,20 @@ export function runOne(full: RunContext, spec: RunSpec, onProgress?: Progress): 
   const Y = embeddingAsMatrix(embedding);
   const knnX: KnnGraph = ctx.knnReference.k === ctx.k ? ctx.knnReference : knnPrefix(ctx.knnReference, ctx.k);
   const knnY = knnOf(Y, ctx.k);
-  const metrics = {
+  const structure = scoreStructure(full.scoring, Y, knnY, rows ?? undefined);
+  const metrics: RunMetrics = {
     trustworthiness: trustworthiness(ctx.reference, Y, ctx.k, { knnX, knnY }),
     continuity: continuity(ctx.reference, Y, ctx.k, { knnX, knnY }),
     knn_overlap: knnOverlap(knnX, knnY, ctx.k).fraction,
+    auc_rnx: finiteOrNull(structure.auc_rnx),
+    distance_spearman: finiteOrNull(structure.distance_spearman),
+    centroid_spearman: finiteOrNull(structure.centroid_spearman),
+    density_correlation: finiteOrNull(structure.density_correlation),
+    label_silhouette: finiteOrNull(structure.label_silhouette),
+    label_knn_accuracy: finiteOrNull(structure.label_knn_accuracy),
   };
-  const out: RunOutput = { id: spec.id, embedding: embedding.data, seconds, info, metrics };
+  if (spec.method === 'tsne') metrics.kl_divergence = finiteOrNull(info.kl_divergence ?? null);
+  const out: RunOutput = { id: spec.id, embedding: embedding.data, seconds, info, metrics, rnxCurve: structure.rnx_curve };
   if (rows) out.rows = rows;
   return out;
 }

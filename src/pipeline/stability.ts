@@ -11,6 +11,8 @@ import { selectRows } from '../core/matrix.js';
 import { adjustedRandIndex, kmeansLabels } from '../metrics/clustering.js';
 import { knnOverlap } from '../metrics/neighbourhood.js';
 import { procrustes } from '../metrics/procrustes.js';
+import { pointStability } from '../metrics/points.js';
+import { clusterStability, type ClusterStabilityEntry } from '../metrics/cluster-stability.js';
 import { knnOf } from '../neighbors/exact.js';
 import { sharedRows } from './resample.js';
 
@@ -33,11 +35,19 @@ export interface SettingStability {
   identicalMaps: boolean;
   /** k-means labels of each map, over that map's own points. */
   labels: Int32Array[];
+  /** Per dataset row: mean Jaccard overlap of its k-neighbourhood across pairs of maps (NaN where never compared). */
+  points: Float64Array;
+  /** Hennig (2007) cluster-wise stability of the first map's k-means clusters. */
+  clusters: ClusterStabilityEntry[];
 }
 
 const asMatrix = (e: Embedding): Matrix => ({ n: e.n, d: 2, data: e.data });
 
-export function settingStability(maps: readonly Embedding[], n: number, opts: { k: number; clusters: number; rng: Rng }): SettingStability {
+export function settingStability(
+  maps: readonly Embedding[],
+  n: number,
+  opts: { k: number; clusters: number; rng: Rng; labels?: Int32Array | null },
+): SettingStability {
   const S = maps.length;
   const labels = maps.map((e) => kmeansLabels(asMatrix(e), Math.min(opts.clusters, e.n - 1), opts.rng));
   const fullKnn: Array<KnnGraph | null> = maps.map((e) => (e.rows ? null : knnOf(asMatrix(e), opts.k)));
@@ -80,6 +90,8 @@ export function settingStability(maps: readonly Embedding[], n: number, opts: { 
     ariMean: mean((p) => p.ari),
     identicalMaps: S >= 2 && maps.every((e) => sameMap(e, maps[0])),
     labels,
+    points: pointStability(maps.map(asMatrix), { k: opts.k, n, rows: maps.map((e) => e.rows ?? null), knn: fullKnn }),
+    clusters: clusterStability(labels, { n, rows: maps.map((e) => e.rows ?? null), labels: opts.labels ?? null }),
   };
 }
 

@@ -10,7 +10,9 @@ import { readEmbeddingCsv } from '../../io/embedding-csv.js';
 import { knnOf } from '../../neighbors/exact.js';
 import { continuity, knnOverlap, trustworthiness } from '../../metrics/neighbourhood.js';
 import { procrustes } from '../../metrics/procrustes.js';
-import { loadData, preprocess } from '../../pipeline/prepare.js';
+import { DATA_SEED, loadData, preprocess } from '../../pipeline/prepare.js';
+import { buildScoringIndex, scoreStructure, scoringSummary } from '../../metrics/scoring.js';
+import { labelCodes } from '../../pipeline/labels.js';
 import { sweepFromArgv } from './common.js';
 
 export async function run(argv: Record<string, unknown>): Promise<void> {
@@ -27,13 +29,23 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
   if (emb.n !== X.n) throw new InputError('score.row-count', `${embPath}: has ${emb.n} rows but ${dataset.path} has ${X.n}; the embedding must have one row per data row, in the same order`);
   if (!Number.isInteger(k) || k < 1 || k > X.n - 2) throw new InputError('flags.k', `--k: ${String(argv.k)} is not allowed; give a whole number from 1 to n − 2 = ${X.n - 2}`);
   const Y = embeddingAsMatrix(emb);
-  const knnX = knnOf(X, k);
+  const knnX = knnOf(X, Math.min(X.n - 1, k));
   const knnY = knnOf(Y, k);
-  const scores: Record<string, number> = {
+  const labels = dataset.labels ? labelCodes(dataset.labels) : null;
+  const index = buildScoringIndex(X, knnX, { k, labels, seed: DATA_SEED });
+  const structure = scoreStructure(index, Y, knnY);
+  const scores: Record<string, number | null> = {
     trustworthiness: trustworthiness(X, Y, k, { knnX, knnY }),
     continuity: continuity(X, Y, k, { knnX, knnY }),
     knn_overlap: knnOverlap(knnX, knnY, k).fraction,
+    auc_rnx: structure.auc_rnx,
+    distance_spearman: structure.distance_spearman,
+    centroid_spearman: structure.centroid_spearman,
+    density_correlation: structure.density_correlation,
+    label_silhouette: structure.label_silhouette,
+    label_knn_accuracy: structure.label_knn_accuracy,
   };
+  const sampling = scoringSummary(index);
   if (typeof argv.against === 'string') {
     const other = await readEmbeddingCsv(argv.against);
     if (other.n !== X.n) throw new InputError('score.row-count', `${argv.against}: has ${other.n} rows but ${embPath} has ${X.n}; both embeddings must cover the same rows in the same order`);
@@ -42,10 +54,12 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
     scores.knn_overlap_between = knnOverlap(knnY, knnOf(Z, k), k).fraction;
   }
   if (argv.json === true) {
-    process.stdout.write(JSON.stringify({ data: dataset.path, embedding: embPath, n: X.n, k, scores }, null, 2) + '\n');
+    process.stdout.write(JSON.stringify({ data: dataset.path, embedding: embPath, n: X.n, k, scores, sampling }, null, 2) + '\n');
     return;
   }
   const lines = [`${embPath} against ${dataset.path} (n = ${X.n}, k = ${k})`];
-  for (const [name, v] of Object.entries(scores)) lines.push(`  ${name.padEnd(22)} ${v.toFixed(6)}`);
+  for (const [name, v] of Object.entries(scores)) lines.push(`  ${name.padEnd(22)} ${v === null || !Number.isFinite(v) ? 'n/a' : v.toFixed(6)}`);
+  if (!sampling.distance_all_pairs) lines.push(`  (distance_spearman on a seeded sample of ${sampling.distance_pairs} pairs)`);
+  if (sampling.rnx_rows < X.n) lines.push(`  (auc_rnx estimated from ${sampling.rnx_rows} seeded query rows)`);
   process.stdout.write(lines.join('\n') + '\n');
 }
