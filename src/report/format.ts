@@ -101,6 +101,18 @@ export function metricName(key: string): string {
       return 'kNN overlap';
     case 'kl_divergence':
       return 'KL divergence';
+    case 'auc_rnx':
+      return 'AUC of R_NX';
+    case 'distance_spearman':
+      return 'distance Spearman';
+    case 'centroid_spearman':
+      return 'centroid Spearman';
+    case 'density_correlation':
+      return 'density correlation';
+    case 'label_silhouette':
+      return 'label silhouette';
+    case 'label_knn_accuracy':
+      return 'label kNN accuracy';
     default:
       return keyWords(key);
   }

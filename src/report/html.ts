@@ -1,7 +1,9 @@
 /**
  * The report as one self-contained HTML page: inline CSS, inline SVG, and an
- * inline script that only makes the ranking table sortable. Nothing is
- * fetched from anywhere; the page reads the same without the script.
+ * inline script that makes the ranking table sortable and shows a tooltip
+ * (id and label) over the points of the maps, reading them from an inline
+ * JSON block. Nothing is fetched from anywhere; the page reads the same
+ * without the script.
  */
 import { escapeHtml as esc } from './escape.js';
 import type { Cell, Figure, ReportModel } from './model.js';
@@ -26,6 +28,7 @@ th,td{border:1px solid #d4d4d4;padding:3px 7px;vertical-align:top}
 th{background:#f0f0f0;text-align:left}
 td.n{text-align:right;font-variant-numeric:tabular-nums;white-space:nowrap}
 th.sortable{cursor:pointer}
+#ranking-table td:nth-child(3){min-width:12em}
 th[aria-sort=ascending]::after{content:" \\25B2";font-size:.8em}
 th[aria-sort=descending]::after{content:" \\25BC";font-size:.8em}
 figure{margin:18px 0}
@@ -33,6 +36,12 @@ figure svg{max-width:100%;height:auto;display:block}
 figcaption{font-size:.88em;color:#333;max-width:760px}
 figcaption p{margin:3px 0}
 code,.mono{font-family:ui-monospace,monospace;font-size:.92em}
+.headline{border:2px solid #0072B2;background:#f1f7fb;padding:10px 16px;margin:10px 0 14px}
+.headline p{margin:4px 0}
+.headline .pick{font-size:1.12em}
+ul.sentences li{margin:3px 0}
+#tip{position:fixed;display:none;pointer-events:none;z-index:10;background:#222;color:#fff;font-size:12px;padding:3px 7px;border-radius:3px;max-width:360px}
+figure svg [data-r]:hover,figure svg .hl{stroke:#000;stroke-width:1.5}
 `;
 
 /*
@@ -64,6 +73,37 @@ h.addEventListener('keydown',function(e){if(e.key==='Enter'||e.key===' '){e.prev
 })();
 `;
 
+/*
+ * Point tooltips: hovering an element with data-r (a data row) shows the
+ * row's id and label from the JSON block, plus data-v (a value) when
+ * present, and outlines the same row in the other panels of that figure.
+ * Points that carry an SVG <title> instead show its text.
+ */
+const TIP_SCRIPT = `
+(function(){
+var el=document.getElementById('point-data');if(!el||!document.body)return;
+var d=JSON.parse(el.textContent),ids={},labs={};
+for(var i=0;i<d.r.length;i++){ids[d.r[i]]=d.id[i];labs[d.r[i]]=d.l?d.l[i]:null;}
+var tip=document.createElement('div');tip.id='tip';tip.setAttribute('role','tooltip');document.body.appendChild(tip);
+var lit=[];
+function clear(){for(var j=0;j<lit.length;j++)lit[j].classList.remove('hl');lit=[];}
+function show(t,e){tip.textContent=t;tip.style.display='block';
+var x=e.clientX+14,y=e.clientY+14;if(x+tip.offsetWidth>innerWidth)x=e.clientX-tip.offsetWidth-8;
+if(y+tip.offsetHeight>innerHeight)y=e.clientY-tip.offsetHeight-8;tip.style.left=x+'px';tip.style.top=y+'px';}
+document.addEventListener('mouseover',function(e){var t=e.target;if(!t||!t.getAttribute)return;
+var r=t.getAttribute('data-r');
+if(r!==null&&ids.hasOwnProperty(r)){var s='id '+ids[r];if(labs[r]!==null)s+=', label '+labs[r];
+var v=t.getAttribute('data-v');if(v!==null)s+=', stability '+v;
+var p=t.closest('.panel');if(p){var n=p.getAttribute('data-seed');if(n!==null)s+=', seed '+n;}
+show(s,e);clear();var f=t.closest('svg');
+if(f&&p){var all=f.querySelectorAll('[data-r="'+r+'"]');for(var k=0;k<all.length;k++){all[k].classList.add('hl');lit.push(all[k]);}}
+return;}
+var ti=t.tagName==='circle'&&t.firstElementChild&&t.firstElementChild.tagName==='title'?t.firstElementChild.textContent:null;
+if(ti){show(ti,e);return;}
+tip.style.display='none';clear();});
+})();
+`;
+
 /** Render the model as a complete HTML document. */
 export function renderHtml(m: ReportModel): string {
   const out: string[] = [];
@@ -77,7 +117,14 @@ export function renderHtml(m: ReportModel): string {
   if (created) out.push(`<p class="small">Results created ${esc(created.text)}.</p>`);
 
   // 1. summary
-  out.push('<section id="summary"><h2>Summary</h2><ul>');
+  out.push('<section id="summary"><h2>Summary</h2>');
+  if (m.headline) {
+    out.push(
+      `<div class="headline" id="recommendation"><p class="pick"><strong>${esc(m.headline.pick)}</strong></p>` +
+        `<p>${esc(m.headline.clusters)}</p></div>`,
+    );
+  }
+  out.push('<p>Best setting of each method:</p><ul>');
   for (const line of m.summary) out.push(`<li>${esc(line)}</li>`);
   out.push('</ul>');
   if (m.notRanked.length > 0) {
@@ -85,6 +132,10 @@ export function renderHtml(m: ReportModel): string {
     for (const line of m.notRanked) out.push(`<li>${esc(line)}</li>`);
     out.push('</ul>');
   }
+  out.push('<h3>Every setting, judged</h3><ul class="sentences">');
+  for (const line of m.settingSentences) out.push(`<li>${esc(line)}</li>`);
+  out.push('</ul>');
+  if (m.hennigNote) out.push(`<p class="small">${esc(m.hennigNote)}</p>`);
   out.push('</section>');
 
   // 2. cautions
@@ -132,6 +183,19 @@ export function renderHtml(m: ReportModel): string {
   for (const v of m.verdicts) out.push(`<li><strong>${esc(v.setting)}</strong>: ${esc(v.verdict)}</li>`);
   out.push('</ul></section>');
 
+  // scores over the grid
+  if (m.gridFigures.length > 0 || m.rnxFigure) {
+    out.push('<section id="grid"><h2>Scores over the grid</h2>');
+    out.push(
+      '<p class="small">How each score changes with the parameters. Every score here is about how faithful or how ' +
+        'stable the maps are; none of them makes the distances between clusters or the sizes of clusters in a t-SNE or ' +
+        'UMAP map meaningful.</p>',
+    );
+    for (const f of m.gridFigures) out.push(figureHtml(f));
+    if (m.rnxFigure) out.push(figureHtml(m.rnxFigure));
+    out.push('</section>');
+  }
+
   // 5. maps
   out.push('<section id="maps"><h2>Maps of the leading settings</h2>');
   out.push(`<div class="caution"><p>${esc(m.mapCaution)}</p></div>`);
@@ -143,6 +207,24 @@ export function renderHtml(m: ReportModel): string {
   if (m.maps.length === 0) out.push('<p>No map could be drawn.</p>');
   for (const s of m.mapsSkipped) out.push(`<p>${esc(s)}</p>`);
   out.push('</section>');
+
+  if (m.seedGrid) {
+    out.push('<section id="seeds"><h2>Every seed of every setting</h2>');
+    out.push(`<div class="caution"><p>${esc(m.mapCaution)}</p></div>`);
+    out.push('<p class="small">Hover over a point to see its id and label, and where the same point lies in the other panels.</p>');
+    out.push(figureHtml(m.seedGrid));
+    out.push('</section>');
+  }
+  if (m.pointMap) {
+    out.push('<section id="points"><h2>Which points move between seeds</h2>');
+    out.push(figureHtml(m.pointMap));
+    out.push('</section>');
+  }
+  if (m.shepard) {
+    out.push('<section id="distances"><h2>Distances: data against map</h2>');
+    out.push(figureHtml(m.shepard));
+    out.push('</section>');
+  }
 
   // 7. provenance
   out.push('<section id="provenance"><h2>How these results were made</h2><dl class="facts">');
@@ -157,8 +239,24 @@ export function renderHtml(m: ReportModel): string {
   for (const g of m.glossary) out.push(`<dt>${esc(g.term)}</dt><dd>${esc(g.text)}</dd>`);
   out.push('</dl></section>');
 
-  out.push(`</main><script>${SCRIPT}</script></body></html>`);
+  out.push(`</main>${pointDataHtml(m)}<script>${SCRIPT}${TIP_SCRIPT}</script></body></html>`);
   return out.join('\n') + '\n';
+}
+
+/**
+ * The ids and labels of the rows drawn with tooltips, as JSON inside a
+ * non-executed script element. Every '<' is written as \u003c so that no
+ * value can close the element.
+ */
+function pointDataHtml(m: ReportModel): string {
+  const labelled = m.hoverPoints.some((p) => p.label !== null);
+  const data = {
+    r: m.hoverPoints.map((p) => p.row),
+    id: m.hoverPoints.map((p) => p.id),
+    l: labelled ? m.hoverPoints.map((p) => p.label) : null,
+  };
+  const json = JSON.stringify(data).replace(/</g, '\\u003c').replace(/\u2028/g, '\\u2028').replace(/\u2029/g, '\\u2029');
+  return `<script type="application/json" id="point-data">${json}</script>`;
 }
 
 function cellHtml(cell: Cell, numeric: boolean): string {

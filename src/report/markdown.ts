@@ -1,23 +1,39 @@
 /**
- * The report as Markdown (CommonMark with pipe tables). Figures are linked as
- * files, `figures/<name>.svg`, which the caller writes next to it.
+ * The report as Markdown (CommonMark with pipe tables). Figures are shown
+ * from their PNG copies, `figures/<name>.png`, each linked to its SVG,
+ * `figures/<name>.svg`; the caller writes both next to it. Without PNG
+ * copies the SVG itself is shown.
  */
 import { escapeMarkdown as esc } from './escape.js';
 import type { Figure, ReportModel } from './model.js';
 
-/** Relative path of a figure file as linked from the Markdown report. */
+/** Relative path of a figure's SVG file as linked from the Markdown report. */
 export function figurePath(name: string): string {
   return `figures/${name}.svg`;
 }
 
-/** Render the model as a Markdown document. */
-export function renderMarkdown(m: ReportModel): string {
+/** Relative path of a figure's PNG copy as shown in the Markdown report. */
+export function pngPath(name: string): string {
+  return `figures/${name}.png`;
+}
+
+/**
+ * Render the model as a Markdown document.
+ *
+ * @param withPng show each figure from its PNG copy (linked to the SVG); false shows the SVG
+ */
+export function renderMarkdown(m: ReportModel, withPng = true): string {
+  const figureMd = (f: Figure): string[] => figureBlock(f, withPng);
   const out: string[] = [];
   out.push(`# ${esc(m.title)}`, '');
   const created = m.provenance.find((p) => p.term === 'created');
   if (created) out.push(`Results created ${esc(created.text)}.`, '');
 
   out.push('## Summary', '');
+  if (m.headline) {
+    out.push(`> **${esc(m.headline.pick)}**`, '>', `> ${esc(m.headline.clusters)}`, '');
+  }
+  out.push('Best setting of each method:', '');
   for (const line of m.summary) out.push(`- ${esc(line)}`);
   out.push('');
   if (m.notRanked.length > 0) {
@@ -25,6 +41,10 @@ export function renderMarkdown(m: ReportModel): string {
     for (const line of m.notRanked) out.push(`- ${esc(line)}`);
     out.push('');
   }
+  out.push('### Every setting, judged', '');
+  for (const line of m.settingSentences) out.push(`- ${esc(line)}`);
+  out.push('');
+  if (m.hennigNote) out.push(`<sub>${esc(m.hennigNote)}</sub>`, '');
 
   out.push('## Read this before the maps', '');
   for (const c of m.cautions) out.push(`> - ${esc(c)}`);
@@ -52,6 +72,17 @@ export function renderMarkdown(m: ReportModel): string {
   for (const v of m.verdicts) out.push(`- **${esc(v.setting)}**: ${esc(v.verdict)}`);
   out.push('');
 
+  if (m.gridFigures.length > 0 || m.rnxFigure) {
+    out.push('## Scores over the grid', '');
+    out.push(
+      'How each score changes with the parameters. None of these scores makes the distances between clusters or the ' +
+        'sizes of clusters in a t-SNE or UMAP map meaningful.',
+      '',
+    );
+    for (const f of m.gridFigures) out.push(...figureMd(f));
+    if (m.rnxFigure) out.push(...figureMd(m.rnxFigure));
+  }
+
   out.push('## Maps of the leading settings', '');
   out.push(`> ${esc(m.mapCaution)}`, '');
   out.push(
@@ -62,6 +93,11 @@ export function renderMarkdown(m: ReportModel): string {
   for (const f of m.maps) out.push(...figureMd(f));
   if (m.maps.length === 0) out.push('No map could be drawn.', '');
   for (const s of m.mapsSkipped) out.push(esc(s), '');
+  if (m.seedGrid) {
+    out.push('## Every seed of every setting', '', `> ${esc(m.mapCaution)}`, '', ...figureMd(m.seedGrid));
+  }
+  if (m.pointMap) out.push('## Which points move between seeds', '', ...figureMd(m.pointMap));
+  if (m.shepard) out.push('## Distances: data against map', '', ...figureMd(m.shepard));
 
   out.push('## How these results were made', '');
   for (const p of m.provenance) out.push(`- **${esc(p.term)}**: ${esc(p.text)}`);
@@ -73,6 +109,9 @@ export function renderMarkdown(m: ReportModel): string {
   return out.join('\n');
 }
 
-function figureMd(f: Figure): string[] {
-  return [`![${esc(f.alt)}](${figurePath(f.name)})`, '', ...f.caption.map((p) => `*${esc(p)}*`), ''];
+function figureBlock(f: Figure, withPng: boolean): string[] {
+  const image = withPng
+    ? `[![${esc(f.alt)}](${pngPath(f.name)})](${figurePath(f.name)})`
+    : `![${esc(f.alt)}](${figurePath(f.name)})`;
+  return [image, '', ...f.caption.map((p) => `*${esc(p)}*`), ''];
 }

@@ -3,17 +3,28 @@
  * plain and unescaped; the HTML and Markdown renderers escape it.
  */
 import { AGREEMENT_BANDS } from '../rank/rank.js';
-import { InternalError } from '../core/errors.js';
-import { embeddingAsMatrix } from '../core/matrix.js';
 import type { ResultsJson, RunRecord, SettingRecord } from '../core/results.js';
 import { deriveSeed } from '../core/rng.js';
 import type { Embedding } from '../core/types.js';
-import { alignTo } from '../metrics/procrustes.js';
+import { alignLayout } from './align.js';
+import {
+  gridFigures,
+  okRunsOf,
+  pointMapFigure,
+  rnxFigure,
+  rowLayouts,
+  seedGridFigure,
+  shepardFigure,
+  slugOf,
+  uniqueName,
+} from './figures.js';
+import type { FigureContext } from './figures.js';
 import { count, fixed, meanSd, methodName, metricName, paramsText, settingLabel, shortHash } from './format.js';
 import { assignColours } from './palette.js';
 import { mapSvg } from './scatter.js';
 import { MAX_POINTS_PER_SEED, subsampleRows } from './subsample.js';
 import { varianceSvg } from './variance.js';
+import { HENNIG_DISSOLVED, HENNIG_NOTE, HENNIG_STABLE, clusterCounts, headline, perturbationPhrase, readClusters, settingSentence } from './words.js';
 
 /** One table cell: display text plus the value the sortable table orders by. */
 export interface Cell {
@@ -42,7 +53,14 @@ export interface Figure {
 
 export interface ReportModel {
   title: string;
+  /** Which setting to use and whether its clusters survive seed changes; null when nothing was ranked. */
+  headline: { pick: string; clusters: string } | null;
+  /** The best setting of each method, one line each. */
   summary: string[];
+  /** One sentence per setting (ranked order, then unranked) with its numbers and thresholds. */
+  settingSentences: string[];
+  /** Attribution of the cluster-stability thresholds, when cluster stability is reported. */
+  hennigNote: string | null;
   notRanked: string[];
   cautions: string[];
   mapCaution: string;
@@ -52,14 +70,32 @@ export interface ReportModel {
   columns: Column[];
   rows: Cell[][];
   verdicts: Array<{ setting: string; verdict: string }>;
+  /** Heatmaps and line charts of the scores over the grid. */
+  gridFigures: Figure[];
+  rnxFigure: Figure | null;
   maps: Figure[];
   mapsSkipped: string[];
+  seedGrid: Figure | null;
+  pointMap: Figure | null;
+  shepard: Figure | null;
+  /** Id and label of every row drawn with a hover tooltip, by row (ascending). */
+  hoverPoints: Array<{ row: number; id: string; label: string | null }>;
   provenance: Array<{ term: string; text: string }>;
   glossary: Array<{ term: string; text: string }>;
 }
 
 /** The metrics always given a column, in this order; others follow when present. */
 const CORE_METRICS = ['trustworthiness', 'continuity', 'knn_overlap'];
+/** Optional metrics in the order they get a column when present; unknown ones follow in code-unit order. */
+const KNOWN_METRICS = [
+  'kl_divergence',
+  'auc_rnx',
+  'distance_spearman',
+  'centroid_spearman',
+  'density_correlation',
+  'label_silhouette',
+  'label_knn_accuracy',
+];
 
 /**
  * ARI bands used to word whether clusters held across seeds: ≥ 0.80 "held",
@@ -70,12 +106,25 @@ const CORE_METRICS = ['trustworthiness', 'continuity', 'knn_overlap'];
 const ARI_HELD = AGREEMENT_BANDS.good;
 const ARI_PARTLY = AGREEMENT_BANDS.moderate;
 
-export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string, Embedding>): ReportModel {
+/**
+ * Everything the report shows, computed once for both renderers.
+ *
+ * @param results the results.json object
+ * @param embeddings run id → embedding (all rows, or the rows named in `rows`)
+ * @param points setting id → per-point stability (n values, NaN = unknown)
+ * @throws InternalError when an embedding does not fit the data set's rows
+ */
+export function buildModel(
+  results: ResultsJson,
+  embeddings: ReadonlyMap<string, Embedding>,
+  points?: ReadonlyMap<string, Float64Array>,
+): ReportModel {
   const ds = results.dataset;
   const sweep = results.sweep;
   const pre = ds.preprocess;
   const ordered = orderSettings(results.settings);
   const ranked = ordered.filter((s) => s.rank !== null);
+  const layouts = rowLayouts(results, embeddings);
 
   // ---- 1. summary
   const summary: string[] = [];
@@ -83,14 +132,23 @@ export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string,
   for (const s of ranked) if (!bestByMethod.has(s.method)) bestByMethod.set(s.method, s);
   for (const [method, s] of bestByMethod) {
     const st = s.stability;
+    const hasC = st.clusters !== undefined && st.clusters.length > 0;
     summary.push(
       `${methodName(method)}: ${paramsText(s.params)} ranks first among ${methodName(method)} settings ` +
         `(overall rank ${s.rank} of ${ranked.length}, composite score ${fixed(s.score)}). ` +
-        `${heldPhrase(st.ari_mean)}: ARI mean ${fixed(st.ari_mean)}, seed kNN overlap ${fixed(st.seed_knn_overlap)}, ` +
-        `Procrustes mean ${fixed(st.procrustes_mean)}.`,
+        `${hasC ? 'Across seeds' : heldPhrase(st.ari_mean)}: ARI mean ${fixed(st.ari_mean)}, seed kNN overlap ${fixed(st.seed_knn_overlap)}, ` +
+        `Procrustes mean ${fixed(st.procrustes_mean)}${hasC ? `; ${clusterCounts(st.clusters!)}` : ''}. ` +
+        `${capitalise(perturbationPhrase(s, results))}.`,
     );
   }
   if (ranked.length === 0) summary.push('No setting could be ranked.');
+  const settingSentences = ordered.map((s) => settingSentence(s, ranked.length, results));
+  const hasClusters = ordered.some((s) => s.stability.clusters && s.stability.clusters.length > 0);
+  const hennigNote = hasClusters
+    ? `Cluster stability: each k-means cluster of a setting's first-seed map is matched, in every other seed's map, to ` +
+      `the cluster it overlaps best (Jaccard similarity of the point sets), and the mean over the other seeds is read ` +
+      `against the thresholds ${HENNIG_STABLE} (stable) and ${HENNIG_DISSOLVED} (dissolved): ${HENNIG_NOTE}`
+    : null;
   const notRanked: string[] = [];
   for (const s of ordered) {
     if (s.rank !== null) continue;
@@ -140,6 +198,20 @@ export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string,
           : `${count(pre.input_dims)} → ${count(pre.pca_dims)} dimensions`,
     },
     ...(pre.scored_against ? [{ term: 'scores measured against', text: pre.scored_against }] : []),
+    ...(ds.scoring
+      ? [
+          { term: 'R_NX query rows', text: count(ds.scoring.rnx_rows) },
+          {
+            term: 'pairs for the distance Spearman',
+            text: ds.scoring.distance_all_pairs
+              ? `all ${count(ds.scoring.distance_pairs)} pairs`
+              : `${count(ds.scoring.distance_pairs)} pairs, a seeded sample`,
+          },
+        ]
+      : []),
+    ...(sweep.resample !== undefined && sweep.resample < 1
+      ? [{ term: 'row resample', text: `each seed embeds a seeded ${fixed(sweep.resample * 100, 0)} % of the rows` }]
+      : []),
   ];
   const evr = pre.explained_variance_ratio;
   let varianceFigure: Figure | null = null;
@@ -149,19 +221,21 @@ export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string,
     varianceNote = '';
     varianceFigure = {
       name: 'explained-variance',
-      fileSvg: varianceSvg(evr, true),
-      inlineSvg: varianceSvg(evr, false),
+      fileSvg: varianceSvg(evr, true, pre.pca_dims ?? evr.length),
+      inlineSvg: varianceSvg(evr, false, pre.pca_dims ?? evr.length),
       alt: 'Explained-variance ratio per principal component, with the cumulative share',
       caption: [
         `Share of the variance${pre.scale ? ' of the scaled data' : ''} carried by each of the ${evr.length} kept ` +
           `principal components (bars) and the running total (line). Together they keep ${fixed(cumulative * 100, 1)} % ` +
-          'of the variance.',
+          'of the variance; the dashed line marks the last component kept, and the methods see only the components ' +
+          'left of it.',
       ],
     };
   }
 
   // ---- 4. table
   const metricKeys = metricColumns(results.settings);
+  const hasPoints = ordered.some((s) => s.stability.points);
   const columns: Column[] = [
     { header: 'rank', numeric: true },
     { header: 'method', numeric: false },
@@ -174,6 +248,8 @@ export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string,
     { header: 'Procrustes max', numeric: true },
     { header: 'seed kNN overlap', numeric: true },
     { header: 'ARI mean', numeric: true },
+    ...(hasClusters ? [{ header: `stable clusters (≥ ${HENNIG_STABLE})`, numeric: true }] : []),
+    ...(hasPoints ? [{ header: 'point stability (mean)', numeric: true }] : []),
   ];
   const rows: Cell[][] = ordered.map((s) => [
     { text: s.rank === null ? 'not ranked' : String(s.rank), sort: s.rank },
@@ -190,6 +266,8 @@ export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string,
     numCell(s.stability.procrustes_max),
     numCell(s.stability.seed_knn_overlap),
     numCell(s.stability.ari_mean),
+    ...(hasClusters ? [clusterCell(s)] : []),
+    ...(hasPoints ? [numCell(s.stability.identical_maps ? null : (s.stability.points?.mean ?? null))] : []),
   ]);
 
   // ---- 6. verdicts
@@ -205,24 +283,18 @@ export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string,
   const mapsSkipped: string[] = [];
   const usedNames = new Set<string>(varianceFigure ? [varianceFigure.name] : []);
   for (const { setting: s, why } of chosen) {
-    const runs = okRuns(s, results.runs, embeddings);
+    const runs = okRunsOf(s, results.runs, layouts);
     const label = settingLabel(s.method, s.params);
     if (runs.length === 0) {
       mapsSkipped.push(`${label}: no map, because no run of this setting produced an embedding.`);
       continue;
     }
-    const raw = runs.map((r) => {
-      const e = embeddings.get(r.id)!;
-      if (e.n !== ds.n) {
-        throw new InternalError(`embedding of run ${r.id} has ${e.n} points, the data set has ${ds.n}`);
-      }
-      return e;
-    });
+    const raw = runs.map((r) => layouts.get(r.id)!);
     const { layers: aligned, seeds, skipped } = alignForMap(
       raw,
       runs.map((r) => r.seed),
     );
-    const name = uniqueName(`map-${slug(s.id)}`, usedNames);
+    const name = uniqueName(`map-${slugOf(s.id)}`, usedNames);
     const title = `Map of ${label}, ${seeds.length} seed${seeds.length === 1 ? '' : 's'} overlaid`;
     const common = { layers: aligned, seeds, rows: rowsDrawn, colours, ids, labels: ds.labels, title };
     const caption: string[] = [];
@@ -269,7 +341,30 @@ export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string,
     });
   }
 
+  // ---- figures over the grid and per seed
+  const ctx: FigureContext = {
+    results,
+    ordered,
+    layouts,
+    colours,
+    ids,
+    usedNames,
+    hoverRows: new Set<number>(),
+  };
+  const grid = gridFigures(ctx, metricKeys);
+  const rnx = rnxFigure(
+    ctx,
+    chosen.map((c) => c.setting),
+  );
+  const seedGrid = seedGridFigure(ctx);
+  const pointMap = pointMapFigure(ctx, points);
+  const shepard = shepardFigure(ctx);
+  const hoverPoints = [...ctx.hoverRows]
+    .sort((a, b) => a - b)
+    .map((row) => ({ row, id: ids[row], label: ds.labels === null ? null : ds.labels[row] }));
+
   // ---- 7. provenance
+  const runsOk = results.runs.filter((r) => r.status === 'ok').length;
   const provenance = [
     { term: 'steadyfold version', text: results.steadyfold.version },
     { term: 'command', text: results.provenance.command },
@@ -281,7 +376,18 @@ export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string,
     { term: 'neighbourhood size k', text: String(sweep.k) },
     { term: 'clusters for ARI', text: `${sweep.clusters} (chosen by: ${sweep.clusters_source})` },
     { term: 'seeds', text: sweep.seeds.join(', ') },
+    {
+      term: 'sweep',
+      text:
+        `${count(results.settings.length)} settings (${[...new Set(results.settings.map((s) => methodName(s.method)))].join(', ')}), ` +
+        `${count(results.runs.length)} runs, ${count(runsOk)} succeeded`,
+    },
+    ...(sweep.resample !== undefined ? [{ term: 'row resample fraction', text: String(sweep.resample) }] : []),
     { term: 'workers', text: String(sweep.workers) },
+    ...(sweep.seconds !== undefined ? [{ term: 'wall-clock seconds of the audit', text: fixed(sweep.seconds, 1) }] : []),
+    ...(sweep.estimated_seconds !== undefined
+      ? [{ term: 'estimated seconds (plan)', text: fixed(sweep.estimated_seconds, 1) }]
+      : []),
   ];
 
   // ---- 8. glossary
@@ -340,9 +446,14 @@ export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string,
     },
   ];
 
+  glossary.push(...extraGlossary(results, k));
+
   return {
     title: `Embedding audit of ${ds.path}`,
+    headline: headline(ranked),
     summary,
+    settingSentences,
+    hennigNote,
     notRanked,
     cautions,
     mapCaution,
@@ -352,8 +463,14 @@ export function buildModel(results: ResultsJson, embeddings: ReadonlyMap<string,
     columns,
     rows,
     verdicts,
+    gridFigures: grid,
+    rnxFigure: rnx,
     maps,
     mapsSkipped,
+    seedGrid,
+    pointMap,
+    shepard,
+    hoverPoints,
     provenance,
     glossary,
   };
@@ -394,9 +511,9 @@ export function chooseMaps(ordered: readonly SettingRecord[]): Array<{ setting: 
 }
 
 /**
- * Align every seed onto the first with `alignTo`, leaving out a seed whose
- * map cannot be aligned (RangeError: a degenerate map) instead of failing the
- * whole report.
+ * Align every seed onto the first (`alignLayout`: Procrustes over the rows
+ * both maps hold), leaving out a seed whose map cannot be aligned
+ * (RangeError: a degenerate map) instead of failing the whole report.
  */
 function alignForMap(
   raw: readonly Embedding[],
@@ -405,11 +522,9 @@ function alignForMap(
   const layers: Embedding[] = [raw[0]];
   const seeds = [allSeeds[0]];
   const skipped: number[] = [];
-  const reference = embeddingAsMatrix(raw[0]);
   for (let s = 1; s < raw.length; s++) {
     try {
-      const moved = alignTo(reference, embeddingAsMatrix(raw[s]));
-      layers.push({ n: moved.n, data: moved.data });
+      layers.push(alignLayout(raw[0], raw[s]).layout);
       seeds.push(allSeeds[s]);
     } catch (err) {
       if (!(err instanceof RangeError)) throw err;
@@ -417,16 +532,6 @@ function alignForMap(
     }
   }
   return { layers, seeds, skipped };
-}
-
-function okRuns(s: SettingRecord, runs: readonly RunRecord[], embeddings: ReadonlyMap<string, Embedding>): RunRecord[] {
-  const order = (seed: number): number => {
-    const i = s.seeds.indexOf(seed);
-    return i < 0 ? s.seeds.length : i;
-  };
-  return runs
-    .filter((r) => r.setting === s.id && r.status === 'ok' && embeddings.has(r.id))
-    .sort((a, b) => order(a.seed) - order(b.seed) || a.seed - b.seed || (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
 }
 
 function unrankedReason(s: SettingRecord, runs: readonly RunRecord[]): string {
@@ -452,7 +557,7 @@ function metricColumns(settings: readonly SettingRecord[]): string[] {
   const present = new Set<string>();
   for (const s of settings) for (const key of Object.keys(s.metrics)) present.add(key);
   const keys = [...CORE_METRICS];
-  if (present.has('kl_divergence')) keys.push('kl_divergence');
+  for (const k of KNOWN_METRICS) if (present.has(k)) keys.push(k);
   const extra = [...present].filter((k) => !keys.includes(k)).sort();
   return [...keys, ...extra];
 }
@@ -461,17 +566,72 @@ function numCell(v: number | null): Cell {
   return { text: fixed(v), sort: v !== null && Number.isFinite(v) ? v : null };
 }
 
-function slug(id: string): string {
-  const s = id
-    .toLowerCase()
-    .replace(/[^a-z0-9]+/g, '-')
-    .replace(/^-+|-+$/g, '');
-  return s.length > 0 ? s.slice(0, 60) : 'setting';
+/** "5 of 7", sorted by the stable share; blank when not tested or not recorded. */
+function clusterCell(s: SettingRecord): Cell {
+  const c = s.stability.clusters;
+  if (s.stability.identical_maps || !c || c.length === 0) return { text: '—', sort: null };
+  const r = readClusters(c);
+  return { text: `${r.stable.length} of ${r.total}`, sort: r.stable.length / r.total };
 }
 
-function uniqueName(base: string, used: Set<string>): string {
-  let name = base;
-  for (let i = 2; used.has(name); i++) name = `${base}-${i}`;
-  used.add(name);
-  return name;
+function capitalise(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+/** Glossary entries for the scores that only newer results carry, each only when present. */
+function extraGlossary(results: ResultsJson, k: number): Array<{ term: string; text: string }> {
+  const keys = new Set(results.settings.flatMap((s) => Object.keys(s.metrics)));
+  const out: Array<{ term: string; text: string }> = [];
+  const add = (key: string, term: string, text: string): void => {
+    if (keys.has(key)) out.push({ term, text });
+  };
+  add(
+    'auc_rnx',
+    'AUC of R_NX',
+    'R_NX(K) measures how many of each point\u2019s K nearest neighbours in the data are also among its K nearest in the ' +
+      'map, rescaled so that 0 is a random map and 1 is perfect; the AUC averages it over all K with weights 1/K, so small ' +
+      'and large neighbourhoods both count (Lee, Peluffo-Ordóñez & Verleysen 2015). Higher is better.',
+  );
+  add(
+    'distance_spearman',
+    'distance Spearman',
+    'Spearman rank correlation between the distances of row pairs in the data and in the map (the Shepard diagram). 1 = ' +
+      'the map keeps the order of all distances; t-SNE and UMAP are not built for that, so expect lower values for them.',
+  );
+  add(
+    'centroid_spearman',
+    'centroid Spearman',
+    'Spearman rank correlation between the distances of the label (or cluster) centres in the data and in the map: ' +
+      'whether groups that are far apart in the data are also far apart in the map. Higher is better.',
+  );
+  add(
+    'density_correlation',
+    'density correlation',
+    'Pearson correlation of the log local radius of each point in the data and in the map: whether dense regions stay ' +
+      'dense (Narayan, Berger & Cho 2021). t-SNE and UMAP even out densities, so low values are common.',
+  );
+  add('label_silhouette', 'label silhouette', 'Silhouette of the labels in the map: from −1 to 1, higher = labels form tighter, better separated groups.');
+  add(
+    'label_knn_accuracy',
+    'label kNN accuracy',
+    `Share of points whose label is the majority label of their ${k} nearest neighbours in the map (leave-one-out).`,
+  );
+  if (results.settings.some((s) => s.stability.clusters && s.stability.clusters.length > 0)) {
+    out.push({
+      term: 'cluster stability (Hennig)',
+      text:
+        'The first seed\u2019s map is split into k-means clusters; for each cluster, the best-matching cluster in every other ' +
+        `seed\u2019s map is found by Jaccard similarity (shared points / points in either), and the mean over seeds is read: ` +
+        `≥ ${HENNIG_STABLE} stable, ≤ ${HENNIG_DISSOLVED} dissolved. ${HENNIG_NOTE}`,
+    });
+  }
+  if (results.settings.some((s) => s.stability.points)) {
+    out.push({
+      term: 'point stability',
+      text:
+        `For each point, the Jaccard overlap of its ${k} nearest neighbours in two seeds\u2019 maps, averaged over pairs ` +
+        'of seeds: 1 = the same neighbours whatever the seed. The mean and the 10th percentile over points summarise it.',
+    });
+  }
+  return out;
 }

@@ -90,3 +90,65 @@ export function assignColours(n: number, labels: readonly string[] | null): Colo
   }
   return { rowEntry, legend, hasOther };
 }
+
+/**
+ * The viridis colour map (van der Walt & Smith, designed for matplotlib 1.5,
+ * 2015): perceptually uniform, readable in grey and under the common forms
+ * of colour-vision deficiency. Eleven stops at 0, 0.1, …, 1, written from
+ * memory of matplotlib's table and checked against matplotlib 3.6.3 in the
+ * tests; values in between are interpolated linearly in sRGB.
+ */
+export const VIRIDIS: readonly string[] = [
+  '#440154',
+  '#482475',
+  '#414487',
+  '#355f8d',
+  '#2a788e',
+  '#21918c',
+  '#22a884',
+  '#44bf70',
+  '#7ad151',
+  '#bddf26',
+  '#fde725',
+];
+
+/** Colour for missing values on a sequential scale (light grey). */
+export const MISSING_GREY = '#e6e6e6';
+
+/**
+ * Viridis colour of t in [0, 1] (clamped; dark purple at 0, yellow at 1),
+ * as '#rrggbb'. NaN gives `MISSING_GREY`.
+ */
+export function viridis(t: number): string {
+  if (Number.isNaN(t)) return MISSING_GREY;
+  const x = Math.min(Math.max(t, 0), 1) * (VIRIDIS.length - 1);
+  const i = Math.min(Math.floor(x), VIRIDIS.length - 2);
+  const f = x - i;
+  const a = hexRgb(VIRIDIS[i]);
+  const b = hexRgb(VIRIDIS[i + 1]);
+  return rgbHex(a[0] + f * (b[0] - a[0]), a[1] + f * (b[1] - a[1]), a[2] + f * (b[2] - a[2]));
+}
+
+/**
+ * Black or white, whichever reads better on `background` ('#rrggbb'):
+ * white when the WCAG 2 relative luminance is below 0.3.
+ */
+export function textColourOn(background: string): string {
+  const [r, g, b] = hexRgb(background).map((c) => {
+    const s = c / 255;
+    return s <= 0.04045 ? s / 12.92 : ((s + 0.055) / 1.055) ** 2.4;
+  });
+  return 0.2126 * r + 0.7152 * g + 0.0722 * b < 0.3 ? '#ffffff' : '#111111';
+}
+
+/** The Okabe–Ito colours for lines and outlines: yellow left out, too light on white. */
+export const LINE_COLOURS: readonly string[] = OKABE_ITO.filter((c) => c !== '#F0E442');
+
+function hexRgb(hex: string): [number, number, number] {
+  return [parseInt(hex.slice(1, 3), 16), parseInt(hex.slice(3, 5), 16), parseInt(hex.slice(5, 7), 16)];
+}
+
+function rgbHex(r: number, g: number, b: number): string {
+  const h = (v: number): string => Math.round(Math.min(Math.max(v, 0), 255)).toString(16).padStart(2, '0');
+  return `#${h(r)}${h(g)}${h(b)}`;
+}

@@ -147,6 +147,7 @@ export function mapSvg(input: MapFigureInput): string {
     `<rect x="${box.left}" y="${box.top}" width="${box.width}" height="${box.height}" fill="#ffffff" stroke="#b8b8b8" stroke-width="1"/>`,
   );
   // Later seeds first (rings), reference last (dots on top).
+  parts.push('<g class="marks">');
   for (let s = layers.length - 1; s >= 0; s--) {
     const xy = plotted.layers[s];
     const reference = s === 0;
@@ -177,6 +178,7 @@ export function mapSvg(input: MapFigureInput): string {
     }
     parts.push('</g>');
   }
+  parts.push('</g>');
   // Axis titles, no numeric ticks: the units of these maps carry no meaning.
   const cx = box.left + box.width / 2;
   const cy = box.top + box.height / 2;

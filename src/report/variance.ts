@@ -13,17 +13,25 @@ export const VARIANCE_BOX = { left: 56, top: 14, width: 440, height: 190 } as co
 const BAR_COLOUR = '#56B4E9'; // Okabe–Ito sky blue
 const LINE_COLOUR = '#D55E00'; // Okabe–Ito vermillion
 
+const DROPPED_COLOUR = '#c8c8c8';
+const KEPT_COLOUR = '#333333';
+
 /**
  * SVG of explained-variance ratios (each in [0, 1]) per component, y axis
  * from 0 to 1 with ticks every 0.25, x axis numbered by component (every
  * m-th label when there are many), cumulative share as a line with dots.
+ * The components kept are marked: a dashed line after the last kept one,
+ * labelled with their number and share; bars of components not kept (when
+ * given) are grey.
  *
- * @param ratios explained-variance ratio per kept component, in order
+ * @param ratios explained-variance ratio per component, in order
  * @param standalone add the SVG namespace (for a file of its own)
+ * @param kept number of leading components kept (default: all given)
  */
-export function varianceSvg(ratios: readonly number[], standalone: boolean): string {
+export function varianceSvg(ratios: readonly number[], standalone: boolean, kept: number = ratios.length): string {
   const b = VARIANCE_BOX;
   const m = ratios.length;
+  const keep = Math.min(Math.max(Math.round(kept), 0), m);
   const band = b.width / Math.max(m, 1);
   const barW = band * 0.7;
   const yOf = (v: number): number => b.top + b.height * (1 - Math.min(Math.max(v, 0), 1));
@@ -42,13 +50,26 @@ export function varianceSvg(ratios: readonly number[], standalone: boolean): str
   }
   // Bars.
   const bars: string[] = [];
+  let keptShare = 0;
   for (let i = 0; i < m; i++) {
     const v = Number.isFinite(ratios[i]) ? ratios[i] : 0;
+    if (i < keep) keptShare += v;
     const x = b.left + i * band + (band - barW) / 2;
     const y = yOf(v);
-    bars.push(`<rect x="${num(x)}" y="${num(y)}" width="${num(barW)}" height="${num(b.top + b.height - y)}"/>`);
+    const fill = i < keep ? '' : ` fill="${DROPPED_COLOUR}"`;
+    bars.push(`<rect x="${num(x)}" y="${num(y)}" width="${num(barW)}" height="${num(b.top + b.height - y)}"${fill}/>`);
   }
-  parts.push(`<g fill="${BAR_COLOUR}">${bars.join('')}</g>`);
+  parts.push(`<g class="marks" fill="${BAR_COLOUR}">${bars.join('')}</g>`);
+  if (keep > 0) {
+    const kx = num(b.left + keep * band);
+    const label = `${keep} component${keep === 1 ? '' : 's'} kept (${(keptShare * 100).toFixed(1)} %)`;
+    const anchor = keep * band > b.width / 2 ? 'end' : 'start';
+    const tx = num(b.left + keep * band + (anchor === 'end' ? -4 : 4));
+    parts.push(
+      `<line x1="${kx}" x2="${kx}" y1="${b.top}" y2="${b.top + b.height}" stroke="${KEPT_COLOUR}" stroke-width="1.2" stroke-dasharray="4 3"/>`,
+      `<text x="${tx}" y="${num(b.top + b.height * 0.45)}" text-anchor="${anchor}" font-weight="bold">${label}</text>`,
+    );
+  }
   // Cumulative line.
   let total = 0;
   const pts: string[] = [];

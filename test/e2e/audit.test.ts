@@ -16,7 +16,7 @@ describe('steadyfold audit on the iris data', () => {
   const outB = path.join(dir, 'b');
   const args = (out: string) => [
     'audit', dataPath, '--label', 'species', '--id', 'flower', '--methods', 'tsne,umap', '--perplexity', '10',
-    '--init', 'pca,random', '--neighbors', '10', '--seeds', '2', '--k', '10', '--workers', '2', '--out', out, '--quiet',
+    '--tsne-init', 'pca,random', '--neighbors', '10', '--seeds', '2', '--k', '10', '--workers', '2', '--out', out, '--quiet',
   ];
   let results: ResultsJson;
 

@@ -45,7 +45,8 @@ function fakeTable(html: string) {
 }
 
 function scriptOf(html: string): string {
-  return html.slice(html.indexOf('<script>') + '<script>'.length, html.indexOf('</script>'));
+  const start = html.indexOf('<script>') + '<script>'.length;
+  return html.slice(start, html.indexOf('</script>', start));
 }
 
 describe('the ranking table script', () => {
@@ -54,7 +55,7 @@ describe('the ranking table script', () => {
   results.settings[0].stability.seed_knn_overlap = 0.2;
   results.settings[1].stability.seed_knn_overlap = 0.9;
   results.settings[2].stability.seed_knn_overlap = 0.5;
-  const html = buildReport({ results, embeddings }).html;
+  const html = buildReport({ results, embeddings }, { png: false }).html;
 
   it('starts in rank order with the rank column marked as sorted', () => {
     const { headers, tbody } = fakeTable(html);
@@ -85,5 +86,24 @@ describe('the ranking table script', () => {
     headers[1].fire('keydown', { key: 'Enter', preventDefault: () => (prevented = true) });
     expect(prevented).toBe(true);
     expect(tbody.rows.map((r) => r.cells[1].text)).toEqual(['PCA', 'UMAP', 't-SNE']);
+  });
+});
+
+describe('the point tooltip data', () => {
+  const f = makeFixture();
+  const html = buildReport(f, { png: false }).html;
+  const start = html.indexOf('<script type="application/json" id="point-data">');
+  const block = html.slice(html.indexOf('>', start) + 1, html.indexOf('</script>', start));
+
+  it('holds the id and label of every row drawn with a tooltip, readable as JSON', () => {
+    const data = JSON.parse(block) as { r: number[]; id: string[]; l: string[] | null };
+    expect(data.r).toEqual(Array.from({ length: 60 }, (_, i) => i));
+    expect(data.id).toEqual(f.results.dataset.ids);
+    expect(data.l).toEqual(f.results.dataset.labels);
+  });
+
+  it('writes no "<" inside the block, so no id or label can close the script element', () => {
+    expect(block).not.toContain('<');
+    expect(block).toContain('\\u003cb>');
   });
 });

@@ -6,7 +6,7 @@ import { MAP_BOX, buildReport, scatterPoints } from '../../src/report/index.js';
 import { NASTY_LABEL, NASTY_PATH, makeFixture } from './fixture.js';
 
 const fixture = makeFixture();
-const report = buildReport(fixture);
+const report = buildReport(fixture, { png: false });
 
 function unescapeHtml(s: string): string {
   return s
@@ -61,8 +61,9 @@ describe('buildReport', () => {
     expect(html).not.toMatch(/<link\b/i);
     expect(html).not.toMatch(/@import|url\(/i);
     expect(html).not.toMatch(/<(img|iframe|object|embed)\b/i);
+    // One executed inline script, and one inert JSON block with the ids and labels for the point tooltips.
     const scripts = html.match(/<script\b[^>]*>/gi) ?? [];
-    expect(scripts).toEqual(['<script>']);
+    expect(scripts).toEqual(['<script type="application/json" id="point-data">', '<script>']);
   });
 
   it('escapes user text (path, label column, labels, ids, command) in the HTML, the Markdown and the figures', () => {
@@ -177,7 +178,16 @@ describe('buildReport', () => {
 
   it('draws maps for the ranked settings and the PCA baseline, each figure a standalone SVG with every seed', () => {
     const names = report.figures.map((f) => f.name);
-    expect(names).toEqual(['explained-variance', 'map-tsne-p30-random', 'map-umap-n15-d0-1', 'map-pca']);
+    expect(names).toEqual([
+      'explained-variance',
+      'rnx-curves',
+      'map-tsne-p30-random',
+      'map-umap-n15-d0-1',
+      'map-pca',
+      'seed-grid',
+      'point-stability',
+      'shepard',
+    ]);
     for (const f of report.figures) {
       expect(f.svg.startsWith('<svg xmlns="http://www.w3.org/2000/svg"')).toBe(true);
       expect(f.svg.endsWith('</svg>')).toBe(true);
@@ -194,16 +204,32 @@ describe('buildReport', () => {
     for (const m of map.matchAll(/c[xy]="([^"]+)"/g)) expect(m[1]).toMatch(/^-?\d+(\.\d{1,2})?$/);
   });
 
-  it('links in the Markdown exactly the figures it returns, as figures/<name>.svg', () => {
+  it('shows in the Markdown exactly the figures it returns, as figures/<name>.png linked to figures/<name>.svg', () => {
+    const withPng = buildReport(fixture);
+    const images = [...withPng.markdown.matchAll(/\[!\[[^\]]*\]\(([^)]+)\)\]\(([^)]+)\)/g)];
+    expect(images.map((m) => m[1])).toEqual(withPng.figures.map((f) => `figures/${f.name}.png`));
+    expect(images.map((m) => m[2])).toEqual(withPng.figures.map((f) => `figures/${f.name}.svg`));
+    expect(withPng.pngs.map((p) => p.name)).toEqual(withPng.figures.map((f) => f.name));
+    // Without PNG copies the SVG files are shown instead.
     const links = [...report.markdown.matchAll(/!\[[^\]]*\]\(([^)]+)\)/g)].map((m) => m[1]);
     expect(links).toEqual(report.figures.map((f) => `figures/${f.name}.svg`));
+    expect(report.pngs).toEqual([]);
   });
 
   it('gives byte-identical output for the same input', () => {
-    const again = buildReport(makeFixture());
+    const again = buildReport(makeFixture(), { png: false });
     expect(again.html).toBe(report.html);
     expect(again.markdown).toBe(report.markdown);
     expect(again.figures).toEqual(report.figures);
+    expect(again.settingsCsv).toBe(report.settingsCsv);
+    // The PNG copies too, byte for byte.
+    const a = buildReport(makeFixture());
+    const b = buildReport(makeFixture());
+    expect(a.pngs.length).toBe(a.figures.length);
+    for (let i = 0; i < a.pngs.length; i++) {
+      expect(a.pngs[i].name).toBe(b.pngs[i].name);
+      expect(Buffer.from(a.pngs[i].png).equals(Buffer.from(b.pngs[i].png))).toBe(true);
+    }
   });
 
   it('shows the data facts: short hash with the full one in a tooltip, preprocessing, explained-variance chart', () => {
@@ -238,7 +264,7 @@ describe('buildReport', () => {
 
   it('draws one colour and says so when there is no label column', () => {
     const f = makeFixture({ labels: false });
-    const r = buildReport(f);
+    const r = buildReport(f, { png: false });
     const map = r.figures.find((x) => x.name === 'map-tsne-p30-random')!.svg;
     expect(map).toContain('no label column');
     const fills = new Set([...map.matchAll(/<g fill="(#[0-9A-F]{6})"/g)].map((m) => m[1]));
@@ -246,7 +272,7 @@ describe('buildReport', () => {
   });
 
   it('merges labels beyond the eighth into a grey "other" entry named in the legend', () => {
-    const r = buildReport(makeFixture({ labelCount: 11, n: 66 }));
+    const r = buildReport(makeFixture({ labelCount: 11, n: 66 }), { png: false });
     const map = r.figures.find((x) => x.name === 'map-tsne-p30-random')!.svg;
     expect(map).toContain('other (3 labels)');
     expect(map).toContain('<g fill="#999999"');
@@ -254,7 +280,7 @@ describe('buildReport', () => {
   });
 
   it('draws a seeded stratified subsample of 3,000 points per seed above 3,000 rows and says so in the caption', () => {
-    const big = buildReport(makeFixture({ n: 3500 }));
+    const big = buildReport(makeFixture({ n: 3500 }), { png: false });
     const map = big.figures.find((x) => x.name === 'map-tsne-p30-random')!.svg;
     for (const seed of [1, 2, 3]) expect(countLayerCircles(map, seed)).toBe(3000);
     expect(big.html).toContain('3,000 of 3,500 points per seed');
@@ -262,10 +288,10 @@ describe('buildReport', () => {
     // No per-point tooltips for a subsampled map.
     expect(inlineFigure(big.html, 'map-tsne-p30-random')).not.toContain('<title>id ');
     // Deterministic: the same points again.
-    const again = buildReport(makeFixture({ n: 3500 }));
+    const again = buildReport(makeFixture({ n: 3500 }), { png: false });
     expect(again.figures).toEqual(big.figures);
 
-    const exact = buildReport(makeFixture({ n: 3000 }));
+    const exact = buildReport(makeFixture({ n: 3000 }), { png: false });
     const all = exact.figures.find((x) => x.name === 'map-tsne-p30-random')!.svg;
     expect(countLayerCircles(all, 1)).toBe(3000);
     expect(exact.html).not.toContain('points per seed, the same points');
@@ -291,7 +317,7 @@ describe('buildReport', () => {
     run.error = 'diverged';
     run.embedding = null;
     f.embeddings.delete(run.id);
-    const r = buildReport(f);
+    const r = buildReport(f, { png: false });
     const map = r.figures.find((x) => x.name === 'map-umap-n15-d0-1')!.svg;
     expect(map).toContain('<g class="seed-2">');
     expect(map).not.toContain('<g class="seed-3">');

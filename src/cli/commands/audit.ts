@@ -15,8 +15,8 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
   try {
     const out = await runAudit({ dataPath, sweep, workers, command: commandLine(), created: new Date().toISOString() }, progress);
     progress.stage('report', 1);
-    const report = buildReport({ results: out.results, embeddings: out.embeddings });
-    await writeAuditOutputs(outDir, out.results, out.embeddings, report);
+    const report = buildReport({ results: out.results, embeddings: out.embeddings, points: out.points });
+    await writeAuditOutputs(outDir, out.results, out.embeddings, report, out.points);
     progress.tick(1);
     progress.end();
     const secs = ((performance.now() - t0) / 1000).toFixed(1);
