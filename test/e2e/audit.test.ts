@@ -111,3 +111,45 @@ describe('steadyfold audit on the iris data', () => {
     expect(readFileSync(out, 'utf8')).toBe(readFileSync(path.join(outA, 'embeddings/tsne-p10-random-s2.csv'), 'utf8'));
   });
 });
+
+describe('steadyfold audit with --resample', () => {
+  const dir = tempDir();
+  let results: ResultsJson;
+  let out = '';
+
+  beforeAll(() => {
+    const X = iris.getNumbers();
+    const y = iris.getClasses();
+    const rows = X.map((r: number[], i: number) => `${r.join(',')},${y[i]}`);
+    const data = writeTemp(dir, 'iris.csv', `sl,sw,pl,pw,species\n${rows.join('\n')}\n`);
+    out = path.join(dir, 'out');
+    const r = cli(['audit', data, '--label', 'species', '--methods', 'tsne', '--perplexity', '10', '--tsne-init', 'pca', '--seeds', '3', '--resample', '0.8', '--k', '10', '--workers', '2', '--out', out, '--quiet']);
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    results = JSON.parse(readFileSync(path.join(out, 'results.json'), 'utf8')) as ResultsJson;
+  });
+
+  it('gives each seed its own 80 % of the rows and writes them with a row column', () => {
+    const runs = results.runs.filter((r) => r.method === 'tsne');
+    expect(runs).toHaveLength(3);
+    const sets = runs.map((r) => {
+      const lines = readFileSync(path.join(out, r.embedding!), 'utf8').trim().split('\n');
+      expect(lines[0]).toBe('row,x,y');
+      expect(r.rows).toBe(120);
+      return lines.slice(1).map((l) => Number(l.split(',')[0]));
+    });
+    expect(sets[0]).toHaveLength(120);
+    expect(sets[0]).not.toEqual(sets[1]);
+  });
+
+  it('turns a deterministic t-SNE setting into a tested one and says what was perturbed', () => {
+    const s = results.settings.find((x) => x.method === 'tsne')!;
+    expect(s.stability.identical_maps).toBe(false);
+    expect(s.rank).toBe(1);
+    expect(s.stability.perturbations!.join(' ')).toMatch(/row resample.*80 %/);
+    expect(s.stability.pairs).toBe(3);
+    expect(s.stability.points!.least_stable.length).toBeGreaterThan(0);
+    expect(existsSync(path.join(out, s.stability.points!.points_file))).toBe(true);
+    expect(results.sweep.resample).toBe(0.8);
+  });
+});
