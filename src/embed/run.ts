@@ -7,13 +7,18 @@ import { Rng, deriveSeed } from '../core/rng.js';
 import type { Embedding, KnnGraph, Matrix, RunSpec } from '../core/types.js';
 import { pca2 } from '../preprocess/pca.js';
 import { runTsne } from './tsne/index.js';
-import { runUmap } from './umap/umapjs.js';
+import { fuzzySimplicialSet, runUmap, type FuzzyGraph, type UmapInit } from './umap/index.js';
 
 export interface EmbedContext {
   /** Data as the methods see it (after scaling and PCA), n × d. */
   X: Matrix;
   /** Exact neighbours of X, enough columns for every run. */
   knn: KnnGraph;
+  /**
+   * UMAP fuzzy graphs by n_neighbors, built on first use and reused by every
+   * seed and min_dist of this context (the result is identical either way).
+   */
+  fuzzyGraphs?: Map<number, FuzzyGraph>;
 }
 
 export interface EmbedOutcome {
@@ -45,7 +50,14 @@ export function embedOne(ctx: EmbedContext, spec: RunSpec, onProgress?: Progress
       };
     }
     case 'umap': {
-      const r = runUmap(ctx.X, ctx.knn, { nNeighbors: spec.params.nNeighbors ?? 15, minDist: spec.params.minDist ?? 0.1, onProgress }, rng);
+      const nNeighbors = spec.params.nNeighbors ?? 15;
+      let graph = ctx.fuzzyGraphs?.get(nNeighbors);
+      if (!graph) {
+        graph = fuzzySimplicialSet(ctx.knn, nNeighbors);
+        ctx.fuzzyGraphs?.set(nNeighbors, graph);
+      }
+      const init = (spec.params.init as UmapInit | undefined) ?? 'spectral';
+      const r = runUmap(ctx.X, ctx.knn, { nNeighbors, minDist: spec.params.minDist ?? 0.1, init, graph, onProgress }, rng);
       return { embedding: r.embedding, info: { epochs: r.epochs } };
     }
     case 'pca':

@@ -50,5 +50,5 @@ export function fromShared(s: SharedContext): RunContext {
   const reference: Matrix = s.reference === null ? X : { n: s.n, d: s.reference.d, data: new Float64Array(s.reference.data) };
   const r = s.knnReference;
   const knnReference: KnnGraph = { n: s.n, k: r.k, indices: new Int32Array(r.indices), distances: new Float64Array(r.distances) };
-  return { X, knn, k: s.k, reference, knnReference, resample: s.resample, scoring: s.scoring };
+  return { X, knn, k: s.k, reference, knnReference, resample: s.resample, scoring: s.scoring, fuzzyGraphs: new Map() };
 }

@@ -83,7 +83,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const scoring = buildScoringIndex(prep.reference, knnReference, { k: cfg.k, labels: labelCodes, groups, seed: DATA_SEED });
   progress.tick(1);
 
-  const ctx: RunContext = { X, knn, k: cfg.k, reference: prep.reference, knnReference, resample: cfg.resample, scoring };
+  const ctx: RunContext = { X, knn, k: cfg.k, reference: prep.reference, knnReference, resample: cfg.resample, scoring, fuzzyGraphs: new Map() };
   const executor: Executor = req.workers > 0 ? new PoolExecutor(ctx, req.workers) : new InlineExecutor(ctx, runOne);
   progress.stage('runs', runs.length, est.runs);
   let done = 0;
