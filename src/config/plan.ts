@@ -85,7 +85,7 @@ export function estimateRunSeconds(method: MethodName, params: MethodParams, n: 
     return 0.05 + COST.tsnePerNlognIter * nlogn * it + COST.tsnePerEdgeIter * n * 3 * perp * it;
   }
   if (method === 'umap') {
-    const epochs = n <= 2500 ? 500 : n <= 5000 ? 400 : n <= 7500 ? 300 : 200;
+    const epochs = n <= 10_000 ? 500 : 200; // umap-learn's rule, as the engine uses
     const k = params.nNeighbors ?? 15;
     return 0.05 + COST.umapPerEdgeEpoch * n * k * epochs + COST.umapPerPoint * n;
   }
@@ -96,8 +96,8 @@ export function estimateRunSeconds(method: MethodName, params: MethodParams, n: 
 export const COST = {
   tsnePerNlognIter: 1.1e-7,
   tsnePerEdgeIter: 1.5e-9,
-  umapPerEdgeEpoch: 2.2e-7,
-  umapPerPoint: 1.7e-3,
+  umapPerEdgeEpoch: 4.7e-8,
+  umapPerPoint: 5.3e-4,
   pcaPerCell: 1e-6,
   knnPerPairDim: 1.2e-9,
   scorePerRun: 0.05,
