@@ -5,6 +5,7 @@
  */
 import type { KnnGraph, Matrix } from '../core/types.js';
 import { Rng } from '../core/rng.js';
+import { selectRows } from '../core/matrix.js';
 import { adjustedRandIndex, kmeansLabels } from './clustering.js';
 import { exactKnn } from '../neighbors/exact.js';
 import { knnOverlap } from './neighbourhood.js';
@@ -20,6 +21,12 @@ export interface SeedStabilityOptions {
   readonly rng: Rng;
   /** k-means++ starts per embedding. Default 10. */
   readonly restarts?: number;
+  /**
+   * Dataset rows each map covers (ascending; map row t = dataset row
+   * rows[s][t]); null / absent = all rows. With row lists, maps may differ in
+   * size and every pair is compared on the rows both cover.
+   */
+  readonly rows?: ReadonlyArray<Int32Array | null>;
 }
 
 /** Comparison of one pair of seeds. */
@@ -33,6 +40,8 @@ export interface SeedPair {
   readonly knnOverlap: number;
   /** Adjusted Rand index of the two k-means partitions. */
   readonly ari: number;
+  /** Number of rows the pair was compared on. */
+  readonly sharedRows: number;
 }
 
 /** Result of `seedStability`. Pairwise summaries are null with fewer than two embeddings. */
@@ -69,9 +78,10 @@ export function seedStability(embeddings: readonly Matrix[], opts: SeedStability
   const S = embeddings.length;
   if (S === 0) throw new RangeError('at least one embedding is needed');
   const { n, d } = embeddings[0];
+  const rowLists = opts.rows ?? null;
   for (let s = 1; s < S; s++) {
     const e = embeddings[s];
-    if (e.n !== n || e.d !== d) {
+    if ((e.n !== n && rowLists === null) || e.d !== d) {
       throw new RangeError(`embedding ${s} is ${e.n} × ${e.d} but embedding 0 is ${n} × ${d}`);
     }
   }
@@ -90,7 +100,9 @@ export function seedStability(embeddings: readonly Matrix[], opts: SeedStability
   }
 
   let identicalMaps = S >= 2;
-  for (let s = 1; s < S && identicalMaps; s++) identicalMaps = sameBytes(embeddings[0].data, embeddings[s].data);
+  for (let s = 1; s < S && identicalMaps; s++) {
+    identicalMaps = sameBytes(embeddings[0].data, embeddings[s].data) && sameRows(rowLists?.[0] ?? null, rowLists?.[s] ?? null);
+  }
 
   if (S < 2) {
     return {
@@ -105,7 +117,8 @@ export function seedStability(embeddings: readonly Matrix[], opts: SeedStability
     };
   }
 
-  const graphs: KnnGraph[] = embeddings.map((e) => exactKnn(e, k));
+  const rowsOf = (s: number): Int32Array | null => rowLists?.[s] ?? null;
+  const graphs: Array<KnnGraph | null> = embeddings.map((e, s) => (rowsOf(s) === null ? exactKnn(e, k) : null));
   const perPairs: SeedPair[] = [];
   let sumP = 0;
   let maxP = -Infinity;
@@ -113,10 +126,26 @@ export function seedStability(embeddings: readonly Matrix[], opts: SeedStability
   let sumA = 0;
   for (let a = 0; a < S; a++) {
     for (let b = a + 1; b < S; b++) {
-      const p = procrustes(embeddings[a], embeddings[b]).disparity;
-      const o = knnOverlap(graphs[a], graphs[b], k).fraction;
-      const r = adjustedRandIndex(labels[a], labels[b]);
-      perPairs.push({ a, b, procrustes: p, knnOverlap: o, ari: r });
+      let A = embeddings[a];
+      let B = embeddings[b];
+      let la = labels[a];
+      let lb = labels[b];
+      let ga = graphs[a];
+      let gb = graphs[b];
+      if (rowsOf(a) !== null || rowsOf(b) !== null) {
+        const shared = sharedPositions(rowsOf(a), A.n, rowsOf(b), B.n);
+        A = selectRows(A, shared.inA);
+        B = selectRows(B, shared.inB);
+        la = pick(la, shared.inA);
+        lb = pick(lb, shared.inB);
+        const kk = Math.min(k, A.n - 1);
+        ga = exactKnn(A, kk);
+        gb = exactKnn(B, kk);
+      }
+      const p = procrustes(A, B).disparity;
+      const o = knnOverlap(ga!, gb!, ga!.k).fraction;
+      const r = adjustedRandIndex(la, lb);
+      perPairs.push({ a, b, procrustes: p, knnOverlap: o, ari: r, sharedRows: A.n });
       sumP += p;
       if (p > maxP) maxP = p;
       sumK += o;
@@ -134,6 +163,39 @@ export function seedStability(embeddings: readonly Matrix[], opts: SeedStability
     perPairs,
     labels,
   };
+}
+
+function sameRows(a: Int32Array | null, b: Int32Array | null): boolean {
+  if (a === null || b === null) return a === b;
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
+function pick(a: Int32Array, idx: Int32Array): Int32Array {
+  const out = new Int32Array(idx.length);
+  for (let i = 0; i < idx.length; i++) out[i] = a[idx[i]];
+  return out;
+}
+
+/** Positions, in each map, of the dataset rows both maps cover (a null row list = rows 0..m−1). */
+function sharedPositions(ra: Int32Array | null, na: number, rb: Int32Array | null, nb: number): { inA: Int32Array; inB: Int32Array } {
+  const rowA = (i: number): number => (ra ? ra[i] : i);
+  const rowB = (j: number): number => (rb ? rb[j] : j);
+  const inA: number[] = [];
+  const inB: number[] = [];
+  let i = 0;
+  let j = 0;
+  while (i < na && j < nb) {
+    const x = rowA(i);
+    const y = rowB(j);
+    if (x === y) {
+      inA.push(i++);
+      inB.push(j++);
+    } else if (x < y) i++;
+    else j++;
+  }
+  return { inA: Int32Array.from(inA), inB: Int32Array.from(inB) };
 }
 
 function sameBytes(x: Float64Array, y: Float64Array): boolean {

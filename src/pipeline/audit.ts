@@ -236,7 +236,7 @@ function stabilityOf(
     procrustes_max: s.procrustesMax,
     seed_knn_overlap: s.seedKnnOverlap,
     ari_mean: s.ariMean,
-    pairs: s.pairs.length,
+    pairs: s.pairs,
     identical_maps: s.identicalMaps,
     perturbations: perturbed,
     clusters: s.clusters

@@ -14,25 +14,3 @@ export function resampleRows(n: number, fraction: number, seed: number): Int32Ar
   if (m >= n) return null;
   return sampleIndices(n, m, new Rng(deriveSeed(seed, 'resample')));
 }
-
-/** Rows present in both ascending lists, with their positions in each. */
-export function sharedRows(a: Int32Array | null, b: Int32Array | null, n: number): { rows: Int32Array; inA: Int32Array; inB: Int32Array } {
-  const ra = a ?? Int32Array.from({ length: n }, (_, i) => i);
-  const rb = b ?? Int32Array.from({ length: n }, (_, i) => i);
-  const rows: number[] = [];
-  const inA: number[] = [];
-  const inB: number[] = [];
-  let i = 0;
-  let j = 0;
-  while (i < ra.length && j < rb.length) {
-    if (ra[i] === rb[j]) {
-      rows.push(ra[i]);
-      inA.push(i);
-      inB.push(j);
-      i++;
-      j++;
-    } else if (ra[i] < rb[j]) i++;
-    else j++;
-  }
-  return { rows: Int32Array.from(rows), inA: Int32Array.from(inA), inB: Int32Array.from(inB) };
-}

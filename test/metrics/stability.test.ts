@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { matrixFromRows } from '../../src/core/matrix.js';
+import { matrixFromRows, selectRows } from '../../src/core/matrix.js';
 import { Rng } from '../../src/core/rng.js';
 import { adjustedRandIndex, kmeansLabels } from '../../src/metrics/clustering.js';
 import { seedStability } from '../../src/metrics/stability.js';
+import { procrustes } from '../../src/metrics/procrustes.js';
 import { S10, loadDigits500, similarity } from './testdata.js';
 
 describe('seedStability', () => {
@@ -80,5 +81,21 @@ describe('seedStability', () => {
     );
     expect(() => seedStability([S10.Y], { k: 10, clusters: 2, rng: new Rng(1) })).toThrow(/from 1 to n − 1 = 9/);
     expect(() => seedStability([S10.Y], { k: 2, clusters: 11, rng: new Rng(1) })).toThrow(/clusters/);
+  });
+});
+
+describe('seedStability on row subsets', () => {
+  it('compares each pair on the rows both maps cover, as if those rows were all there is', () => {
+    // Map a covers rows 0..8 of S10, map b covers rows 1..9: they share rows 1..8.
+    const rowsA = Int32Array.from([0, 1, 2, 3, 4, 5, 6, 7, 8]);
+    const rowsB = Int32Array.from([1, 2, 3, 4, 5, 6, 7, 8, 9]);
+    const A = selectRows(S10.Y, rowsA);
+    const B = selectRows(S10.Y2, rowsB);
+    const r = seedStability([A, B], { k: 2, clusters: 2, rng: new Rng(4), rows: [rowsA, rowsB] });
+    const shared = Int32Array.from([1, 2, 3, 4, 5, 6, 7, 8]);
+    const direct = procrustes(selectRows(S10.Y, shared), selectRows(S10.Y2, shared)).disparity;
+    expect(r.perPairs[0].sharedRows).toBe(8);
+    expect(r.perPairs[0].procrustes).toBeCloseTo(direct, 14);
+    expect(r.identicalMaps).toBe(false);
   });
 });
