@@ -24,7 +24,7 @@ export const SWEEP_FLAGS: Record<string, Options> = {
   sweep: { type: 'string', describe: 'sweep file (YAML); flags override its keys' },
   methods: { type: 'string', describe: 'comma-separated methods: tsne,umap,pca (the PCA baseline is always added)' },
   perplexity: { type: 'string', describe: 't-SNE perplexities, e.g. 10,30,50' },
-  init: { type: 'string', describe: 'initialisations for both methods: pca, spectral, random (e.g. pca,random)' },
+  init: { type: 'string', describe: 'initialisations for both methods: pca, random (e.g. pca,random); UMAP also takes spectral via --umap-init' },
   'tsne-init': { type: 'string', describe: 't-SNE initialisations only (default pca)' },
   'umap-init': { type: 'string', describe: 'UMAP initialisations only (default spectral)' },
   resample: { type: 'number', describe: 'fraction of rows each seed embeds, e.g. 0.9 (default 1: all rows); stability is then measured on shared rows' },

@@ -19,6 +19,12 @@ export interface EmbedContext {
    * seed and min_dist of this context (the result is identical either way).
    */
   fuzzyGraphs?: Map<number, FuzzyGraph>;
+  /**
+   * Threads one embedding may use (t-SNE splits its work by fixed ranges, so
+   * the bytes do not depend on it). 1 inside a pool worker, where the sweep
+   * already fills the cores; the core count when one embedding runs alone.
+   */
+  threads?: number;
 }
 
 export interface EmbedOutcome {
@@ -40,6 +46,7 @@ export function embedOne(ctx: EmbedContext, spec: RunSpec, onProgress?: Progress
           perplexity: spec.params.perplexity ?? 30,
           iterations: spec.params.iterations ?? 1000,
           init: (spec.params.init as 'pca' | 'random' | undefined) ?? 'pca',
+          threads: ctx.threads ?? 1,
           onProgress,
         },
         rng,

@@ -7,6 +7,7 @@ import { writeEmbeddingCsv } from '../../io/embedding-csv.js';
 import { loadData, neighbours, preprocess } from '../../pipeline/prepare.js';
 import { neighboursNeeded } from '../../config/plan.js';
 import { sweepFromArgv } from './common.js';
+import { defaultWorkers } from '../../pipeline/audit.js';
 
 export async function run(argv: Record<string, unknown>): Promise<void> {
   const method = argv.method as MethodName;
@@ -14,11 +15,15 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
   const given: MethodParams = {};
   if (method === 'tsne') {
     if (argv.perplexity !== undefined) given.perplexity = positive('perplexity', argv.perplexity);
-    if (argv.init !== undefined) given.init = String(argv.init);
+    if (argv.init !== undefined) {
+      if (argv.init === 'spectral') throw new InputError('flags.init', "--init: t-SNE takes 'pca' or 'random'; 'spectral' is for UMAP");
+      given.init = String(argv.init);
+    }
     if (argv.iterations !== undefined) given.iterations = Math.round(positive('iterations', argv.iterations));
   } else if (method === 'umap') {
     if (argv.neighbors !== undefined) given.nNeighbors = Math.round(positive('neighbors', argv.neighbors));
     if (argv['min-dist'] !== undefined) given.minDist = positive('min-dist', argv['min-dist'], true);
+    if (argv.init !== undefined) given.init = String(argv.init);
   }
   const params = withDefaults(method, given);
   const seed = Number(argv.seed);
@@ -31,7 +36,7 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
   const id = settingId(method, params);
   const spec: RunSpec = { id: `${id}-s${seed}`, settingId: id, method, params, seed };
   const knn = neighbours(prep.X, neighboursNeeded([{ id, method, params, seeds: [seed] }], 1, prep.X.n));
-  const out = embedOne({ X: prep.X, knn }, spec);
+  const out = embedOne({ X: prep.X, knn, threads: defaultWorkers() }, spec);
   await writeEmbeddingCsv(String(argv.out), out.embedding);
   const facts = Object.entries(out.info).map(([k, v]) => `${k} ${Number.isInteger(v) ? v : v.toFixed(4)}`).join(', ');
   if (argv.quiet !== true) process.stderr.write(`wrote ${argv.out} (${dataset.matrix.n} points, ${id}, seed ${seed}${facts ? `; ${facts}` : ''})\n`);

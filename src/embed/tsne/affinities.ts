@@ -14,6 +14,8 @@
  * every conditional row sums to 1), stored as CSR.
  */
 import type { KnnGraph, Matrix } from '../../core/types.js';
+import { C_M, C_TARGET, JOB_CALIBRATE, R_N, R_ROWS_PER_ITEM, rowItems } from './jobs.js';
+import { Team } from './team.js';
 
 /**
  * Symmetric joint affinities in compressed sparse row form. Row i holds the
@@ -30,12 +32,7 @@ export interface SparseAffinities {
   readonly values: Float64Array;
 }
 
-/** Row entropy tolerance in nats (scikit-learn 1.2.1 `PERPLEXITY_TOLERANCE`). */
-export const PERPLEXITY_TOLERANCE = 1e-5;
-/** Step limit of the β search (scikit-learn 1.2.1 `n_steps`). */
-export const PERPLEXITY_MAX_STEPS = 100;
-/** Replaces a row sum that underflowed to 0 (scikit-learn 1.2.1 `EPSILON_DBL`). */
-const ROW_SUM_FLOOR = 1e-8;
+export { PERPLEXITY_MAX_STEPS, PERPLEXITY_TOLERANCE } from './kernels.js';
 /** Float64 machine epsilon: floor of the exact joint P (as scikit-learn 1.2.1 exact t-SNE). */
 export const MACHINE_EPSILON = 2.220446049250313e-16;
 
@@ -64,6 +61,20 @@ export interface Calibration {
  * @param perplexity target perplexity, 0 < perplexity ≤ m.
  */
 export function calibrate(sqDist: Float64Array, n: number, m: number, perplexity: number): Calibration {
+  const team = new Team(1);
+  try {
+    return calibrateWith(sqDist, n, m, perplexity, team);
+  } finally {
+    team.close();
+  }
+}
+
+/**
+ * `calibrate` with the rows spread over the threads of `team` (same bytes
+ * for any number of threads). `sqDist` must come from `team.arrays`; the
+ * results are allocated there.
+ */
+export function calibrateWith(sqDist: Float64Array, n: number, m: number, perplexity: number, team: Team): Calibration {
   if (!(perplexity > 0) || !Number.isFinite(perplexity)) {
     throw new RangeError(`perplexity must be a positive number; received ${perplexity}`);
   }
@@ -71,50 +82,21 @@ export function calibrate(sqDist: Float64Array, n: number, m: number, perplexity
     throw new RangeError(`perplexity must not exceed the number of candidate neighbours (${m}); received ${perplexity}`);
   }
   if (sqDist.length !== n * m) throw new RangeError(`sqDist has ${sqDist.length} values, expected n × m = ${n * m}`);
-  const beta = new Float64Array(n);
-  const conditional = new Float64Array(n * m);
-  const target = Math.log(perplexity);
-  for (let i = 0; i < n; i++) beta[i] = calibrateRow(sqDist, i * m, m, target, conditional);
+  const beta = team.arrays.f64(n);
+  const conditional = team.arrays.f64(n * m);
+  const rows = Math.max(1, Math.floor(CALIBRATE_ITEM_ENTRIES / m));
+  team.share({ sq: sqDist, cond: conditional, beta });
+  team.params[R_N] = n;
+  team.params[R_ROWS_PER_ITEM] = rows;
+  team.params[C_M] = m;
+  team.params[C_TARGET] = Math.log(perplexity);
+  team.run(JOB_CALIBRATE, rowItems(n, rows));
+  team.release(['sq', 'cond', 'beta']);
   return { beta, conditional };
 }
 
-/**
- * Bisection for one row; writes p_{j|i} into out[off .. off + m) and returns
- * the β those probabilities were computed with.
- */
-function calibrateRow(d2: Float64Array, off: number, m: number, target: number, out: Float64Array): number {
-  let beta = 1;
-  let betaMin = -Infinity;
-  let betaMax = Infinity;
-  let used = beta;
-  for (let step = 0; step < PERPLEXITY_MAX_STEPS; step++) {
-    used = beta;
-    let sum = 0;
-    for (let t = 0; t < m; t++) {
-      const v = Math.exp(-d2[off + t] * beta);
-      out[off + t] = v;
-      sum += v;
-    }
-    if (sum === 0) sum = ROW_SUM_FLOOR;
-    let sumDP = 0;
-    for (let t = 0; t < m; t++) {
-      const p = out[off + t] / sum;
-      out[off + t] = p;
-      sumDP += d2[off + t] * p;
-    }
-    const entropy = Math.log(sum) + beta * sumDP;
-    const diff = entropy - target;
-    if (Math.abs(diff) <= PERPLEXITY_TOLERANCE) break;
-    if (diff > 0) {
-      betaMin = beta;
-      beta = betaMax === Infinity ? beta * 2 : (beta + betaMax) / 2;
-    } else {
-      betaMax = beta;
-      beta = betaMin === -Infinity ? beta / 2 : (beta + betaMin) / 2;
-    }
-  }
-  return used;
-}
+/** Distances per work item of the calibration (rows of m distances are grouped up to about this many). */
+const CALIBRATE_ITEM_ENTRIES = 4096;
 
 /**
  * Sparse joint P from exact nearest neighbours (Barnes-Hut t-SNE input side).
@@ -126,12 +108,22 @@ function calibrateRow(d2: Float64Array, off: number, m: number, target: number, 
  * @returns CSR with between k and 2k entries per row.
  */
 export function jointFromKnn(knn: KnnGraph, perplexity: number, k = neighboursForPerplexity(perplexity, knn.n)): SparseAffinities {
+  const team = new Team(1);
+  try {
+    return jointFromKnnWith(knn, perplexity, k, team);
+  } finally {
+    team.close();
+  }
+}
+
+/** `jointFromKnn` with the calibration on the threads of `team`; P is allocated in `team.arrays`. */
+export function jointFromKnnWith(knn: KnnGraph, perplexity: number, k: number, team: Team): SparseAffinities {
   const n = knn.n;
   const stride = knn.k;
   if (!Number.isInteger(k) || k < 1 || k > stride) {
     throw new RangeError(`the neighbour graph has ${stride} columns; ${k} are needed (perplexity ${perplexity})`);
   }
-  const sq = new Float64Array(n * k);
+  const sq = team.arrays.f64(n * k);
   const cols = new Int32Array(n * k);
   for (let i = 0; i < n; i++) {
     for (let t = 0; t < k; t++) {
@@ -144,12 +136,12 @@ export function jointFromKnn(knn: KnnGraph, perplexity: number, k = neighboursFo
       cols[i * k + t] = j;
     }
   }
-  const { conditional } = calibrate(sq, n, k, perplexity);
-  return symmetrise(n, k, cols, conditional);
+  const { conditional } = calibrateWith(sq, n, k, perplexity, team);
+  return symmetrise(n, k, cols, conditional, team);
 }
 
 /** (C + Cᵀ) / Σ as CSR, for an n × k conditional matrix C with column indices `cols`. */
-function symmetrise(n: number, k: number, cols: Int32Array, cond: Float64Array): SparseAffinities {
+function symmetrise(n: number, k: number, cols: Int32Array, cond: Float64Array, team: Team): SparseAffinities {
   // Unmerged row lengths: k own entries plus one per appearance in another row.
   const rowLen = new Int32Array(n);
   for (let e = 0; e < n * k; e++) rowLen[cols[e]]++;
@@ -197,9 +189,13 @@ function symmetrise(n: number, k: number, cols: Int32Array, cond: Float64Array):
     indptr[i + 1] = nnz;
   }
   const scale = 1 / Math.max(total, MACHINE_EPSILON);
-  const values = new Float64Array(nnz);
+  const values = team.arrays.f64(nnz);
   for (let e = 0; e < nnz; e++) values[e] = outVal[e] * scale;
-  return { n, indptr, indices: outCol.slice(0, nnz), values };
+  const indices = team.arrays.i32(nnz);
+  indices.set(outCol.subarray(0, nnz));
+  const sharedPtr = team.arrays.i32(n + 1);
+  sharedPtr.set(indptr);
+  return { n, indptr: sharedPtr, indices, values };
 }
 
 /**
@@ -212,10 +208,20 @@ function symmetrise(n: number, k: number, cols: Int32Array, cond: Float64Array):
  * @param perplexity 0 < perplexity ≤ n − 1.
  */
 export function jointExact(X: Matrix, perplexity: number): SparseAffinities {
+  const team = new Team(1);
+  try {
+    return jointExactWith(X, perplexity, team);
+  } finally {
+    team.close();
+  }
+}
+
+/** `jointExact` with the calibration on the threads of `team`; P is allocated in `team.arrays`. */
+export function jointExactWith(X: Matrix, perplexity: number, team: Team): SparseAffinities {
   const { n, d, data } = X;
   if (n < 2) throw new RangeError(`exact affinities need at least 2 points; received ${n}`);
   const m = n - 1;
-  const sq = new Float64Array(n * m);
+  const sq = team.arrays.f64(n * m);
   for (let i = 0; i < n; i++) {
     for (let j = i + 1; j < n; j++) {
       let s = 0;
@@ -228,14 +234,14 @@ export function jointExact(X: Matrix, perplexity: number): SparseAffinities {
       sq[j * m + i] = s;
     }
   }
-  const { conditional } = calibrate(sq, n, m, perplexity);
+  const { conditional } = calibrateWith(sq, n, m, perplexity, team);
   let total = 0;
   for (let e = 0; e < n * m; e++) total += conditional[e];
   total *= 2;
   const scale = 1 / Math.max(total, MACHINE_EPSILON);
-  const indptr = new Int32Array(n + 1);
-  const indices = new Int32Array(n * m);
-  const values = new Float64Array(n * m);
+  const indptr = team.arrays.i32(n + 1);
+  const indices = team.arrays.i32(n * m);
+  const values = team.arrays.f64(n * m);
   for (let i = 0; i < n; i++) {
     indptr[i + 1] = (i + 1) * m;
     for (let j = 0; j < n; j++) {

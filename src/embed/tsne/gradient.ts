@@ -13,6 +13,7 @@
  */
 import type { Embedding } from '../../core/types.js';
 import type { SparseAffinities } from './affinities.js';
+import { attractionRows } from './kernels.js';
 import { QuadTree } from './quadtree.js';
 
 /** Gradient of KL(P‖Q) at Y and the normalisation Z of Q. */
@@ -173,9 +174,10 @@ export function exactGradient(P: SparseAffinities, Y: Embedding): GradientResult
 }
 
 /**
- * Barnes-Hut gradient of KL(P‖Q) at Y: exact attraction over the entries of
- * P (symmetric, as for `exactGradient`), repulsion and Z from a quadtree with opening angle θ (θ = 0 is exact;
- * 0.5 is the usual setting). O(nnz + n log n) time for fixed θ > 0.
+ * Barnes-Hut gradient of KL(P‖Q) at Y, computed as the optimiser computes
+ * it: exact attraction over the entries of P, row by row; repulsion and Z
+ * from a quadtree with opening angle θ (θ = 0 is exact; 0.5 is the usual
+ * setting). O(nnz + n log n) time for fixed θ > 0.
  */
 export function bhGradient(P: SparseAffinities, Y: Embedding, theta = 0.5): GradientResult {
   checkShapes(P, Y);
@@ -183,7 +185,7 @@ export function bhGradient(P: SparseAffinities, Y: Embedding, theta = 0.5): Grad
   const n = Y.n;
   const attr = new Float64Array(2 * n);
   const rep = new Float64Array(2 * n);
-  attractiveForcesInto(P, Y.data, 1, attr);
+  attractionRows(P.indptr, P.indices, P.values, Y.data, 0, n, attr);
   const tree = new QuadTree();
   tree.build(Y.data, n);
   const z = tree.repulsion(theta, rep);

@@ -2,7 +2,7 @@
  * t-SNE on typed arrays: affinities, exact and Barnes-Hut gradients, the
  * optimiser and the exact KL divergence of a layout.
  */
-export { runTsne, EXACT_MAX_POINTS } from './tsne.js';
+export { runTsne, EXACT_MAX_POINTS, MAX_THREADS, PARALLEL_MIN_POINTS } from './tsne.js';
 export type { TsneOptions, TsneResult } from './tsne.js';
 export {
   calibrate,

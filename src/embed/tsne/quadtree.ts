@@ -3,25 +3,39 @@
  * Barnes-Hut approximation of the t-SNE repulsion (van der Maaten 2014,
  * JMLR 15:3221). The arrays are kept between builds and only grow, so
  * rebuilding it every iteration allocates nothing once it has reached its
- * working size.
+ * working size. They can live in shared memory (see arrays.ts), so that a
+ * worker thread reads the tree the main thread built.
  *
  * Cells are squares. The root is the bounding square of the points; a cell
- * with more than `LEAF_CAPACITY` points is split into four equal quadrants
+ * with more than `leafCapacity` points is split into four equal quadrants
  * (order: low-x/low-y, high-x/low-y, low-x/high-y, high-x/high-y), except at
  * depth `MAX_DEPTH`, which only coincident or nearly coincident points reach.
- * The points of a node are the contiguous range `perm[start .. start+count)`.
+ * The points of a node are the contiguous range `perm[start .. start+count)`
+ * ("tree order"); `px`, `py` hold their coordinates in that order. Every
+ * build starts from the points in index order, so the tree depends only on
+ * the coordinates, not on earlier builds.
  */
+import { heapArrays } from './arrays.js';
+import type { ArrayFactory } from './arrays.js';
+import { MAX_TREE_DEPTH, RepulsionScratch, repulsionLeaves, sumInOrder } from './kernels.js';
+import type { TreeArrays } from './kernels.js';
 
-/** Points a leaf may hold before it is split. */
+/** Points a leaf may hold before it is split (default). */
 export const LEAF_CAPACITY = 16;
 /** Depth limit; stops endless splitting of coincident points. */
-export const MAX_DEPTH = 48;
+export const MAX_DEPTH = MAX_TREE_DEPTH;
 
-export class QuadTree {
+export class QuadTree implements TreeArrays {
   /** Number of nodes in use; node 0 is the root. */
   nodeCount = 0;
+  /** Number of non-empty leaves, listed in tree order in `leaves`. */
+  leafCount = 0;
   /** Number of points of the last build. */
   size = 0;
+  /** Incremented whenever the arrays are replaced by larger ones. */
+  version = 0;
+  /** Points a leaf may hold before it is split. */
+  readonly leafCapacity: number;
   /** Index of the first of the four consecutive children, or −1 for a leaf. */
   firstChild: Int32Array;
   /** Start of the node's points in `perm`. */
@@ -35,27 +49,42 @@ export class QuadTree {
   x0: Float64Array;
   y0: Float64Array;
   side: Float64Array;
+  /** Non-empty leaves in tree order. */
+  leaves: Int32Array;
   /** Point indices grouped by node. */
   perm: Int32Array;
-  /** Coordinates in `perm` order, so a leaf's points are contiguous in memory. */
-  private px: Float64Array;
-  private py: Float64Array;
-  private stack: Int32Array;
+  /** Coordinates in `perm` order, so a node's points are contiguous in memory. */
+  px: Float64Array;
+  py: Float64Array;
+  /** Tree-order position of each point (the inverse of `perm`). */
+  pos: Int32Array = new Int32Array(0);
+  private readonly arrays: ArrayFactory;
+  private scratch: RepulsionScratch | null = null;
+  private zTree: Float64Array = new Float64Array(0);
+  private forceTree: Float64Array = new Float64Array(0);
 
-  constructor(capacityHint = 64) {
+  /**
+   * @param capacityHint initial number of nodes (grown on demand).
+   * @param arrays where the arrays live (default: ordinary heap arrays).
+   * @param leafCapacity points a leaf may hold (default `LEAF_CAPACITY`).
+   */
+  constructor(capacityHint = 64, arrays: ArrayFactory = heapArrays, leafCapacity = LEAF_CAPACITY) {
+    if (!Number.isInteger(leafCapacity) || leafCapacity < 1) throw new RangeError(`leafCapacity must be a positive integer; received ${leafCapacity}`);
+    this.arrays = arrays;
+    this.leafCapacity = leafCapacity;
     const c = Math.max(16, capacityHint | 0);
-    this.firstChild = new Int32Array(c);
-    this.start = new Int32Array(c);
-    this.count = new Int32Array(c);
-    this.comX = new Float64Array(c);
-    this.comY = new Float64Array(c);
+    this.firstChild = arrays.i32(c);
+    this.start = arrays.i32(c);
+    this.count = arrays.i32(c);
+    this.comX = arrays.f64(c);
+    this.comY = arrays.f64(c);
     this.x0 = new Float64Array(c);
     this.y0 = new Float64Array(c);
-    this.side = new Float64Array(c);
-    this.perm = new Int32Array(0);
-    this.px = new Float64Array(0);
-    this.py = new Float64Array(0);
-    this.stack = new Int32Array(4 * (MAX_DEPTH + 2));
+    this.side = arrays.f64(c);
+    this.leaves = arrays.i32(c);
+    this.perm = arrays.i32(0);
+    this.px = arrays.f64(0);
+    this.py = arrays.f64(0);
   }
 
   /**
@@ -64,11 +93,12 @@ export class QuadTree {
    */
   build(y: Float64Array, n: number): void {
     if (this.perm.length < n) {
-      this.perm = new Int32Array(n);
-      this.px = new Float64Array(n);
-      this.py = new Float64Array(n);
+      this.perm = this.arrays.i32(n);
+      this.px = this.arrays.f64(n);
+      this.py = this.arrays.f64(n);
+      this.version++;
     }
-    const perm = this.perm;
+    const { perm, px, py } = this;
     let minX = Infinity;
     let minY = Infinity;
     let maxX = -Infinity;
@@ -77,23 +107,23 @@ export class QuadTree {
       perm[i] = i;
       const a = y[2 * i];
       const b = y[2 * i + 1];
+      px[i] = a;
+      py[i] = b;
       if (a < minX) minX = a;
       if (a > maxX) maxX = a;
       if (b < minY) minY = b;
       if (b > maxY) maxY = b;
     }
     this.nodeCount = 0;
+    this.leafCount = 0;
     this.size = n;
     const root = this.allocate(1);
     const side = n > 0 ? Math.max(maxX - minX, maxY - minY) : 0;
     this.initNode(root, 0, n, n > 0 ? minX : 0, n > 0 ? minY : 0, side);
-    this.split(root, y, 0);
-    const { px, py } = this;
-    for (let e = 0; e < n; e++) {
-      const p = perm[e];
-      px[e] = y[2 * p];
-      py[e] = y[2 * p + 1];
-    }
+    this.split(root, 0);
+    if (this.pos.length < n) this.pos = new Int32Array(n);
+    const pos = this.pos;
+    for (let e = 0; e < n; e++) pos[perm[e]] = e;
   }
 
   /** Reserve `k` consecutive nodes and return the first index. */
@@ -106,14 +136,15 @@ export class QuadTree {
   }
 
   private grow(capacity: number): void {
-    const growI = (a: Int32Array): Int32Array => {
-      const b = new Int32Array(capacity);
-      b.set(a);
+    const a = this.arrays;
+    const growI = (old: Int32Array): Int32Array => {
+      const b = a.i32(capacity);
+      b.set(old);
       return b;
     };
-    const growF = (a: Float64Array): Float64Array => {
-      const b = new Float64Array(capacity);
-      b.set(a);
+    const growF = (old: Float64Array): Float64Array => {
+      const b = a.f64(capacity);
+      b.set(old);
       return b;
     };
     this.firstChild = growI(this.firstChild);
@@ -121,9 +152,15 @@ export class QuadTree {
     this.count = growI(this.count);
     this.comX = growF(this.comX);
     this.comY = growF(this.comY);
-    this.x0 = growF(this.x0);
-    this.y0 = growF(this.y0);
     this.side = growF(this.side);
+    this.leaves = growI(this.leaves);
+    const x0 = new Float64Array(capacity);
+    x0.set(this.x0);
+    this.x0 = x0;
+    const y0 = new Float64Array(capacity);
+    y0.set(this.y0);
+    this.y0 = y0;
+    this.version++;
   }
 
   private initNode(node: number, start: number, count: number, x0: number, y0: number, side: number): void {
@@ -138,21 +175,21 @@ export class QuadTree {
   }
 
   /** Split `node` recursively and fill in centres of mass. */
-  private split(node: number, y: Float64Array, depth: number): void {
+  private split(node: number, depth: number): void {
     const s = this.start[node];
     const c = this.count[node];
     if (c === 0) return;
-    if (c <= LEAF_CAPACITY || depth >= MAX_DEPTH) {
-      const perm = this.perm;
+    if (c <= this.leafCapacity || depth >= MAX_DEPTH) {
+      const { px, py } = this;
       let sx = 0;
       let sy = 0;
       for (let e = s; e < s + c; e++) {
-        const p = perm[e];
-        sx += y[2 * p];
-        sy += y[2 * p + 1];
+        sx += px[e];
+        sy += py[e];
       }
       this.comX[node] = sx / c;
       this.comY[node] = sy / c;
+      this.leaves[this.leafCount++] = node;
       return;
     }
     const half = this.side[node] / 2;
@@ -161,9 +198,9 @@ export class QuadTree {
     const mx = x0 + half;
     const my = y0 + half;
     const e = s + c;
-    const a = this.partition(y, s, e, 1, my);
-    const b1 = this.partition(y, s, a, 0, mx);
-    const b2 = this.partition(y, a, e, 0, mx);
+    const a = this.partition(this.py, this.px, s, e, my);
+    const b1 = this.partition(this.px, this.py, s, a, mx);
+    const b2 = this.partition(this.px, this.py, a, e, mx);
     const fc = this.allocate(4);
     this.firstChild[node] = fc;
     this.initNode(fc, s, b1 - s, x0, y0, half);
@@ -174,7 +211,7 @@ export class QuadTree {
     let sy = 0;
     for (let q = 0; q < 4; q++) {
       const child = fc + q;
-      this.split(child, y, depth + 1);
+      this.split(child, depth + 1);
       const k = this.count[child];
       sx += k * this.comX[child];
       sy += k * this.comY[child];
@@ -184,20 +221,27 @@ export class QuadTree {
   }
 
   /**
-   * Reorder perm[lo .. hi) so that points with coordinate `axis` below
-   * `pivot` come first; returns the first index of the upper part.
+   * Reorder positions [lo, hi) (perm and both coordinate arrays together) so
+   * that points whose `key` coordinate is below `pivot` come first; returns
+   * the first position of the upper part.
    */
-  private partition(y: Float64Array, lo: number, hi: number, axis: number, pivot: number): number {
+  private partition(key: Float64Array, other: Float64Array, lo: number, hi: number, pivot: number): number {
     const perm = this.perm;
     let i = lo;
     let j = hi - 1;
     for (;;) {
-      while (i <= j && y[2 * perm[i] + axis] < pivot) i++;
-      while (i <= j && !(y[2 * perm[j] + axis] < pivot)) j--;
+      while (i <= j && key[i] < pivot) i++;
+      while (i <= j && !(key[j] < pivot)) j--;
       if (i >= j) break;
       const t = perm[i];
       perm[i] = perm[j];
       perm[j] = t;
+      const k = key[i];
+      key[i] = key[j];
+      key[j] = k;
+      const o = other[i];
+      other[i] = other[j];
+      other[j] = o;
       i++;
       j--;
     }
@@ -206,68 +250,29 @@ export class QuadTree {
 
   /**
    * Barnes-Hut sums for every point i of the last build (positions as they
-   * were at that build):
-   * writes the unnormalised repulsion Σ_j w_ij² (y_i − y_j), with
+   * were at that build), by `repulsionLeaves` (one interaction list per
+   * leaf): writes the unnormalised repulsion Σ_j w_ij² (y_i − y_j), with
    * w_ij = 1 / (1 + ‖y_i − y_j‖²), into out[2i], out[2i+1] and returns
-   * Z = Σ_i Σ_{j≠i} w_ij. A non-leaf cell is summarised by its centre of
-   * mass when side² < θ² · ‖y_i − com‖² (the criterion of scikit-learn 1.2.1);
-   * the points of a leaf are always visited one by one, so θ = 0 gives the
-   * exact sums. For θ < 1/√2 a cell containing i is never summarised.
+   * Z = Σ_i Σ_{j≠i} w_ij, summed over i in index order. θ = 0 gives the
+   * exact sums; for θ < 1/√2 a cell containing i is never summarised.
+   * Z is summed over the points in tree order, as the optimiser sums it.
    */
   repulsion(theta: number, out: Float64Array): number {
     const n = this.size;
-    const theta2 = theta * theta;
-    const { firstChild, start, count, comX, comY, side, perm, px, py, stack } = this;
-    let z = 0;
-    // Points are visited in tree order: consecutive points walk similar paths.
-    for (let ei = 0; ei < n; ei++) {
-      const i = perm[ei];
-      const xi = px[ei];
-      const yi = py[ei];
-      let fx = 0;
-      let fy = 0;
-      let zi = 0;
-      let sp = 0;
-      stack[sp++] = 0;
-      while (sp > 0) {
-        const node = stack[--sp];
-        const fc = firstChild[node];
-        if (fc < 0) {
-          const s = start[node];
-          const end = s + count[node];
-          for (let e = s; e < end; e++) {
-            if (e === ei) continue;
-            const dx = xi - px[e];
-            const dy = yi - py[e];
-            const w = 1 / (1 + dx * dx + dy * dy);
-            zi += w;
-            const w2 = w * w;
-            fx += w2 * dx;
-            fy += w2 * dy;
-          }
-          continue;
-        }
-        const dx = xi - comX[node];
-        const dy = yi - comY[node];
-        const d2 = dx * dx + dy * dy;
-        const sd = side[node];
-        if (sd * sd < theta2 * d2) {
-          const w = 1 / (1 + d2);
-          const cw = count[node] * w;
-          zi += cw;
-          const cw2 = cw * w;
-          fx += cw2 * dx;
-          fy += cw2 * dy;
-        } else {
-          for (let q = 3; q >= 0; q--) {
-            if (count[fc + q] > 0) stack[sp++] = fc + q;
-          }
-        }
-      }
-      out[2 * i] = fx;
-      out[2 * i + 1] = fy;
-      z += zi;
+    if (this.zTree.length < n) {
+      this.zTree = new Float64Array(n);
+      this.forceTree = new Float64Array(2 * n);
     }
-    return z;
+    if (this.scratch === null) this.scratch = new RepulsionScratch(this.nodeCount, this.leafCount, MAX_DEPTH);
+    this.scratch.ensure(this.nodeCount, this.leafCount);
+    const f = this.forceTree;
+    repulsionLeaves(this, theta * theta, 0, this.leafCount, f, this.zTree, this.scratch);
+    const perm = this.perm;
+    for (let e = 0; e < n; e++) {
+      const i = perm[e];
+      out[2 * i] = f[2 * e];
+      out[2 * i + 1] = f[2 * e + 1];
+    }
+    return sumInOrder(this.zTree, n);
   }
 }
