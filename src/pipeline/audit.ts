@@ -64,16 +64,17 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   }
 
   progress.stage('preprocessing', 1);
-  const prep = preprocess(dataset, warnings, cfg.data);
+  const threads = Math.max(1, req.workers);
+  const prep = preprocess(dataset, warnings, cfg.data, threads);
   const X = prep.X;
   const kMax = neighboursNeeded(settings, cfg.k, X.n);
   const est = estimateSweepSeconds(runs, X.n, X.d, Math.max(1, req.workers), kMax, prep.reference.d);
   progress.stage('neighbours', 1, est.neighbours);
-  const knn = neighbours(X, kMax);
+  const knn = neighbours(X, kMax, threads);
   // Scores measure faithfulness to the features before PCA; without PCA that is the same graph.
   // Spare columns let subsets (--resample) find their neighbours without a rescan.
   const refK = Math.min(X.n - 1, 2 * cfg.k + 10);
-  const knnReference = prep.reference === X && knn.k >= refK ? knnPrefix(knn, refK) : neighbours(prep.reference, refK);
+  const knnReference = prep.reference === X && knn.k >= refK ? knnPrefix(knn, refK) : neighbours(prep.reference, refK, threads);
   progress.tick(1);
 
   progress.stage('scoring index', 1);

@@ -31,7 +31,7 @@ export async function loadData(path: string, opts: DataOptions): Promise<{ datas
   return readTable(path, { delimiter: opts.delimiter, label: opts.label, id: opts.id, missing: opts.missing });
 }
 
-export function preprocess(dataset: Dataset, warnings: string[], opts: DataOptions): Prepared {
+export function preprocess(dataset: Dataset, warnings: string[], opts: DataOptions, threads = 1): Prepared {
   let X = dataset.matrix;
   if (opts.scale) X = zScore(X);
   const reference = X;
@@ -46,13 +46,18 @@ export function preprocess(dataset: Dataset, warnings: string[], opts: DataOptio
   if (dims !== null && dims > Math.min(X.n, X.d)) dims = Math.min(X.n, X.d);
   let evr: number[] = [];
   if (dims !== null) {
-    const pca = randomizedPca(X, dims, new Rng(deriveSeed(DATA_SEED, 'pca')));
+    const pca = randomizedPca(X, dims, new Rng(deriveSeed(DATA_SEED, 'pca')), { threads });
     X = pca.scores;
     evr = Array.from(pca.explainedVarianceRatio);
   }
   return { dataset, warnings, X, reference, pcaDims: dims, explainedVarianceRatio: evr };
 }
 
-export function neighbours(X: Matrix, k: number): KnnGraph {
-  return knnOf(X, k);
+/**
+ * The dataset's neighbour graph: exact up to 20,000 rows, NN-descent above
+ * with a data-level seed that stays fixed across embedding seeds, so
+ * neighbour noise never masquerades as embedding instability.
+ */
+export function neighbours(X: Matrix, k: number, threads = 1): KnnGraph {
+  return knnOf(X, k, { rng: new Rng(deriveSeed(DATA_SEED, 'knn')), threads });
 }

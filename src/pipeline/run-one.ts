@@ -6,6 +6,7 @@
 import type { KnnGraph, Matrix, RunSpec } from '../core/types.js';
 import { embeddingAsMatrix, selectRows } from '../core/matrix.js';
 import { resampleRows } from './resample.js';
+import { neighbours } from './prepare.js';
 import { embedOne, type EmbedContext, type Progress } from '../embed/run.js';
 import { knnOf, knnPrefix } from '../neighbors/exact.js';
 import { continuity, knnOverlap, trustworthiness } from '../metrics/neighbourhood.js';
@@ -48,10 +49,10 @@ export interface RunOutput {
 /** The context restricted to a subset of rows: neighbours recomputed exactly within the subset. */
 export function subsetContext(ctx: RunContext, rows: Int32Array): RunContext {
   const X = selectRows(ctx.X, rows);
-  const knn = knnOf(X, Math.min(ctx.knn.k, X.n - 1));
+  const knn = neighbours(X, Math.min(ctx.knn.k, X.n - 1));
   const sameSpace = ctx.reference === ctx.X;
   const reference = sameSpace ? X : selectRows(ctx.reference, rows);
-  const knnReference = sameSpace ? knnPrefix(knn, Math.min(ctx.k, knn.k)) : knnOf(reference, ctx.k);
+  const knnReference = sameSpace ? knnPrefix(knn, Math.min(ctx.k, knn.k)) : neighbours(reference, ctx.k);
   return { X, knn, k: ctx.k, reference, knnReference, resample: 1, scoring: ctx.scoring };
 }
 

@@ -18,12 +18,13 @@ export function columnMeans(m: Matrix): Float64Array {
 
 /**
  * Subtract each column's mean. Returns a new n × d matrix (the input is not
- * touched) and the d column means that were subtracted.
+ * touched; written into `out`, of length n·d, when given) and the d column
+ * means that were subtracted.
  */
-export function centerColumns(m: Matrix): { centered: Matrix; mean: Float64Array } {
+export function centerColumns(m: Matrix, out: Float64Array = new Float64Array(m.n * m.d)): { centered: Matrix; mean: Float64Array } {
   const { n, d, data } = m;
+  if (out.length !== n * d) throw new RangeError(`output has length ${out.length}, expected ${n * d}`);
   const mean = columnMeans(m);
-  const out = new Float64Array(n * d);
   for (let i = 0; i < n; i++) {
     const o = i * d;
     for (let j = 0; j < d; j++) out[o + j] = data[o + j] - mean[j];

@@ -5,7 +5,10 @@ import { describe, expect, it } from 'vitest';
 import { sqDist } from '../../src/core/matrix.js';
 import { Rng } from '../../src/core/rng.js';
 import type { KnnGraph, Matrix } from '../../src/core/types.js';
-import { exactKnn, knnOf, knnPrefix } from '../../src/neighbors/exact.js';
+import { DEFAULT_KNN_SEED, EXACT_KNN_LIMIT, exactKnn, knnOf, knnPrefix } from '../../src/neighbors/exact.js';
+import { splitBlocks } from '../../src/neighbors/exact-tiles.js';
+import { nnDescent } from '../../src/neighbors/nndescent.js';
+import { workerThreadsAvailable } from '../../src/preprocess/parallel.js';
 
 /** The obvious O(n² log n) reference: sort all other points by (squared distance, index). */
 function naiveKnn(m: Matrix, k: number): KnnGraph {
@@ -186,9 +189,74 @@ describe('knnPrefix', () => {
   });
 });
 
+describe('exactKnn on several threads', () => {
+  it('returns the same bytes on two and three threads as on one', () => {
+    // Without a loadable worker thread the multi-thread calls would quietly run on one.
+    expect(workerThreadsAvailable()).toBe(true);
+    const m = gaussian(13, 2500, 10);
+    const one = exactKnn(m, 15);
+    expectSameGraph(exactKnn(m, 15, { threads: 2 }), one);
+    expectSameGraph(exactKnn(m, 15, { threads: 3 }), one);
+  });
+
+  it('keeps the lower index first among equal distances across the split between threads', () => {
+    const m = tiedIntegers(14, 2100, 3, 3); // 27 distinct points, ~78 copies each
+    const g = exactKnn(m, 40, { threads: 2 });
+    expectSameGraph(g, exactKnn(m, 40));
+    // Row 2099's 40 neighbours at distance 0 are the 40 lowest-index copies of itself.
+    const copies: number[] = [];
+    for (let j = 0; j < 2099 && copies.length < 40; j++) if (sqDist(m, j, m, 2099) === 0) copies.push(j);
+    expect(copies.length).toBe(40);
+    expect(Array.from(g.indices.subarray(2099 * 40, 2100 * 40))).toEqual(copies);
+  });
+
+  it('rejects a thread count that is not a positive integer', () => {
+    expect(() => exactKnn(gaussian(15, 10, 2), 3, { threads: 0 })).toThrow(RangeError);
+    expect(() => exactKnn(gaussian(15, 10, 2), 3, { threads: 1.5 })).toThrow(RangeError);
+  });
+});
+
+describe('splitBlocks', () => {
+  it('cuts the query blocks into contiguous ranges of about equal work', () => {
+    for (const [blocks, parts] of [
+      [40, 2],
+      [313, 3],
+      [1, 2],
+    ]) {
+      const b = splitBlocks(blocks, parts);
+      expect(b.length).toBe(parts + 1);
+      expect(b[0]).toBe(0);
+      expect(b[parts]).toBe(blocks);
+      const work: number[] = [];
+      for (let p = 0; p < parts; p++) {
+        expect(b[p + 1]).toBeGreaterThanOrEqual(b[p]);
+        let w = 0;
+        for (let a = b[p]; a < b[p + 1]; a++) w += blocks - a; // block a meets blocks a..blocks−1
+        work.push(w);
+      }
+      // No range exceeds its equal share by more than one block's worth of tiles.
+      for (const w of work) expect(w).toBeLessThanOrEqual((blocks * (blocks + 1)) / 2 / parts + blocks);
+    }
+  });
+});
+
 describe('knnOf', () => {
-  it('is the exact search for now', () => {
+  it('is the exact search up to the exact limit, with or without options', () => {
     const m = gaussian(12, 120, 5);
     expectSameGraph(knnOf(m, 8), exactKnn(m, 8));
+    expectSameGraph(knnOf(m, 8, { exactLimit: 120, rng: new Rng(1) }), exactKnn(m, 8));
+    expect(EXACT_KNN_LIMIT).toBe(20_000);
+  });
+
+  it('switches to NN-descent above the limit, seeded by the given generator or else the documented default', () => {
+    const m = gaussian(16, 400, 4);
+    expectSameGraph(knnOf(m, 6, { exactLimit: 399, rng: new Rng(5) }), nnDescent(m, 6, new Rng(5)));
+    expectSameGraph(knnOf(m, 6, { exactLimit: 100 }), nnDescent(m, 6, new Rng(DEFAULT_KNN_SEED)));
+  });
+
+  it('rejects a negative or NaN exact limit', () => {
+    const m = gaussian(17, 20, 2);
+    expect(() => knnOf(m, 3, { exactLimit: -1 })).toThrow(RangeError);
+    expect(() => knnOf(m, 3, { exactLimit: Number.NaN })).toThrow(RangeError);
   });
 });

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 
 import { Rng } from '../../src/core/rng.js';
-import { multiplyABt, orthonormalizeRowsInPlace, transpose } from '../../src/preprocess/dense.js';
+import { multiplyABt, multiplyABtBlock, orthonormalizeRowsInPlace, transpose } from '../../src/preprocess/dense.js';
+import { gemmTasks, runTask } from '../../src/preprocess/tasks.js';
 
 function randomArray(seed: number, length: number): Float64Array {
   const rng = new Rng(seed);
@@ -49,6 +50,72 @@ describe('multiplyABt', () => {
     // [[1, 2], [3, 4]] · [[5, 6], [7, 8]]ᵀ = [[17, 23], [39, 53]]
     const c = multiplyABt(new Float64Array([1, 2, 3, 4]), 2, new Float64Array([5, 6, 7, 8]), 2, 2);
     expect(Array.from(c)).toEqual([17, 23, 39, 53]);
+  });
+});
+
+describe('multiplyABtBlock', () => {
+  it('computes any block of the product with the same bits as the whole product, in both loop orders', () => {
+    // Shapes where A has fewer rows than B, more rows, and the same; blocks that cut through 4 × 4 tiles.
+    for (const [rA, rB, len] of [
+      [10, 37, 23],
+      [37, 10, 23],
+      [9, 9, 5],
+    ]) {
+      const a = randomArray(rA + 7 * rB, rA * len);
+      const b = randomArray(rB + 11 * rA, rB * len);
+      const whole = multiplyABt(a, rA, b, rB, len);
+      for (const [i0, i1, j0, j1] of [
+        [0, rA, 0, rB],
+        [1, rA - 2, 3, rB],
+        [2, 3, 0, rB - 1],
+        [0, rA, 5, 6],
+      ]) {
+        const out = new Float64Array(rA * rB).fill(Number.NaN);
+        multiplyABtBlock(a, i0, i1, b, j0, j1, len, out, rB);
+        for (let i = 0; i < rA; i++) {
+          for (let j = 0; j < rB; j++) {
+            const inside = i >= i0 && i < i1 && j >= j0 && j < j1;
+            if (inside) expect(Object.is(out[i * rB + j], whole[i * rB + j])).toBe(true);
+            else expect(out[i * rB + j]).toBeNaN();
+          }
+        }
+      }
+    }
+  });
+
+  it('sums each entry left to right, like the textbook loop, to the last bit', () => {
+    const a = randomArray(40, 6 * 17);
+    const b = randomArray(41, 9 * 17);
+    const c = multiplyABt(a, 6, b, 9, 17);
+    for (let i = 0; i < 6; i++) {
+      for (let j = 0; j < 9; j++) {
+        let s = 0;
+        for (let t = 0; t < 17; t++) s += a[i * 17 + t] * b[j * 17 + t];
+        expect(c[i * 9 + j]).toBe(s);
+      }
+    }
+  });
+});
+
+describe('gemmTasks', () => {
+  it('splits a product into pieces that together give the same bytes as one call, for 1 to 5 pieces', () => {
+    for (const [rA, rB] of [
+      [10, 203],
+      [203, 10],
+      [3, 2],
+    ]) {
+      const len = 13;
+      const a = randomArray(50 + rA, rA * len);
+      const b = randomArray(60 + rB, rB * len);
+      const whole = multiplyABt(a, rA, b, rB, len);
+      for (let parts = 1; parts <= 5; parts++) {
+        const out = new Float64Array(rA * rB).fill(Number.NaN);
+        const tasks = gemmTasks(a, rA, b, rB, len, out, parts);
+        expect(tasks.length).toBeLessThanOrEqual(parts);
+        for (const t of tasks) runTask(t);
+        expect(Array.from(out)).toEqual(Array.from(whole));
+      }
+    }
   });
 });
 
@@ -102,6 +169,17 @@ describe('orthonormalizeRowsInPlace', () => {
     for (let i = 0; i < rows; i++) for (let t = 0; t < len; t++) v[i * len + t] = a[t] + 1e-10 * b[i * len + t];
     orthonormalizeRowsInPlace(v, rows, len);
     expect(gramError(v, rows, len)).toBeLessThan(1e-13);
+  });
+
+  it('extends an orthonormal set from a given row on, leaving the earlier rows untouched', () => {
+    const rows = 8;
+    const len = 30;
+    const v = randomArray(5, rows * len);
+    orthonormalizeRowsInPlace(v, 3, len);
+    const head = v.slice(0, 3 * len);
+    orthonormalizeRowsInPlace(v, rows, len, 3);
+    expect(Array.from(v.subarray(0, 3 * len))).toEqual(Array.from(head));
+    expect(gramError(v, rows, len)).toBeLessThan(1e-14);
   });
 
   it('rejects more rows than the row length', () => {

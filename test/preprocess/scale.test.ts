@@ -87,6 +87,18 @@ describe('centerColumns', () => {
     expect(m.data).toEqual(copy);
   });
 
+  it('writes into a given output array, and rejects one of the wrong length', () => {
+    const m = matrixFromRows([
+      [1, 10],
+      [3, 30],
+    ]);
+    const out = new Float64Array(4);
+    const { centered } = centerColumns(m, out);
+    expect(centered.data).toBe(out);
+    expect(Array.from(out)).toEqual([-1, -10, 1, 10]);
+    expect(() => centerColumns(m, new Float64Array(3))).toThrow(RangeError);
+  });
+
   it('agrees with columnMeans on a hand-checked example', () => {
     const m = matrixFromRows([
       [1, 10],
