@@ -132,7 +132,23 @@ export function agreementBand(x: number | null): string {
   return 'change with the seed';
 }
 
+/**
+ * Below this density correlation the verdict warns that the map evens out
+ * density differences. A rule of thumb of this tool, not a published cut-off.
+ */
+export const DENSITY_WARNING = 0.3;
+
 export function verdict(rec: Omit<SettingRecord, 'verdict'>, total: number, rankBy: string): string {
+  const base = judge(rec, total, rankBy);
+  const dens = rec.metrics.density_correlation?.mean;
+  if (dens === null || dens === undefined || dens >= DENSITY_WARNING) return base;
+  return (
+    `${base} Its density correlation is ${f3(dens)} (below ${DENSITY_WARNING}): the map evens out how densely points lie in the data, ` +
+    'so a dense group inside a sparse one can be drawn with the same spread; do not read cluster spread from it.'
+  );
+}
+
+function judge(rec: Omit<SettingRecord, 'verdict'>, total: number, rankBy: string): string {
   const m = rec.metrics;
   const st = rec.stability;
   const okSeeds = m.trustworthiness ? rec.seeds.length : 0;

@@ -71,3 +71,19 @@ describe('rankSettings', () => {
     expect(out[0].verdict).toContain('ranks 1 of 3');
   });
 });
+
+describe('density warning in verdicts', () => {
+  it('warns when the density correlation is below the threshold and stays quiet above it', () => {
+    const low = { ...run('umap-x', 1, 0.9, 0.9, 0.5), metrics: { trustworthiness: 0.9, continuity: 0.9, knn_overlap: 0.5, density_correlation: -0.1 } };
+    const high = { ...run('umap-y', 1, 0.9, 0.9, 0.5), metrics: { trustworthiness: 0.9, continuity: 0.9, knn_overlap: 0.5, density_correlation: 0.8 } };
+    const out = rankSettings(
+      [
+        { spec: spec('umap-x'), runs: [low], stability: stab(0.1, 0.8, 0.9) },
+        { spec: spec('umap-y'), runs: [high], stability: stab(0.1, 0.8, 0.9) },
+      ],
+      'composite',
+    );
+    expect(out.find((s) => s.id === 'umap-x')!.verdict).toMatch(/density correlation is -0\.100 \(below 0\.3\)/);
+    expect(out.find((s) => s.id === 'umap-y')!.verdict).not.toMatch(/density correlation/);
+  });
+});
