@@ -10,7 +10,9 @@
  * passed in); and the phase split. T(10) = trustworthiness with k = 10.
  * Times are CPU seconds of this process (user + system), which other load on
  * the machine disturbs far less than wall-clock time; wall seconds are shown
- * beside them. Nothing is asserted.
+ * beside them. A last line times x^b by `Math.pow` and by `powWith`, in a loop
+ * of independent calls and in a chain where each call waits for the previous
+ * one (as the SGD's steps do). Nothing is asserted.
  */
 import os from 'node:os';
 import { UMAP } from 'umap-js';
@@ -18,7 +20,7 @@ import { embeddingAsMatrix, matrixToRows } from '../src/core/matrix.js';
 import { Rng } from '../src/core/rng.js';
 import type { Matrix } from '../src/core/types.js';
 import { spectralLayout } from '../src/embed/init/index.js';
-import { defaultEpochs, fitAB, fuzzySimplicialSet, maxWeight, optimizeLayoutInPlace, pruneGraph, runUmap } from '../src/embed/umap/index.js';
+import { defaultEpochs, fitAB, fuzzySimplicialSet, maxWeight, optimizeLayoutInPlace, powTables, powWith, pruneGraph, runUmap } from '../src/embed/umap/index.js';
 import { runUmap as runUmapJs } from '../src/embed/umap/umapjs.js';
 import { trustworthiness } from '../src/metrics/neighbourhood.js';
 import { knnOf } from '../src/neighbors/exact.js';
@@ -146,3 +148,33 @@ console.log(`machine: ${os.cpus().length} × ${os.cpus()[0]?.model ?? 'cpu'}, No
 console.log(line(header));
 console.log('|' + widths.map((w) => '-'.repeat(w + 2)).join('|') + '|');
 for (const t of table) console.log(line(t));
+
+/** ns per x^b: independent calls, and a dependent chain x ← f(x)·k. */
+function powTimes(f: (x: number) => number): { independent: number; chained: number } {
+  const N = 4_000_000;
+  const xs = new Float64Array(N);
+  const r = new Rng(7);
+  for (let i = 0; i < N; i++) xs[i] = Math.exp(12 * (r.next() - 0.5));
+  let acc = 0;
+  let t0 = performance.now();
+  for (let i = 0; i < N; i++) acc += f(xs[i]);
+  const independent = ((performance.now() - t0) / N) * 1e6;
+  let x = 1.5;
+  t0 = performance.now();
+  for (let i = 0; i < N; i++) x = f(x) * xs[i] + 0.5;
+  const chained = ((performance.now() - t0) / N) * 1e6;
+  if (!Number.isFinite(acc + x)) throw new Error('non-finite power');
+  return { independent, chained };
+}
+const bPow = fitAB(MIN_DIST).b;
+const tables = powTables(bPow);
+const lib = (x: number): number => Math.pow(x, bPow);
+const tab = (x: number): number => powWith(tables, x);
+powTimes(lib);
+powTimes(tab);
+const pl = powTimes(lib);
+const pt = powTimes(tab);
+console.log(
+  `x^${bPow.toFixed(4)}: Math.pow ${pl.independent.toFixed(1)} ns independent, ${pl.chained.toFixed(1)} ns chained; ` +
+    `powWith ${pt.independent.toFixed(1)} ns independent, ${pt.chained.toFixed(1)} ns chained`,
+);

@@ -19,5 +19,6 @@ export type { FuzzyGraph, SmoothDistances } from './graph.js';
 export { fitAB, CURVE_POINTS } from './curve.js';
 export type { CurveParams } from './curve.js';
 export { optimizeLayoutInPlace, GRADIENT_CLIP, REPULSION_EPSILON } from './sgd.js';
-export { powPositive } from './fastpow.js';
+export { powTables, powWith, powChecked, MIN_NORMAL } from './fastpow.js';
+export type { PowTables } from './fastpow.js';
 export type { SgdOptions } from './sgd.js';

@@ -5,7 +5,7 @@
  * of umap-learn's `optimize_layout_euclidean` run single-threaded.
  */
 import type { Rng } from '../../core/rng.js';
-import { powPositive } from './fastpow.js';
+import { MIN_NORMAL, powTables, powWith } from './fastpow.js';
 import type { FuzzyGraph } from './graph.js';
 
 /** Per-coordinate gradient bound (umap-learn `clip`). */
@@ -40,12 +40,15 @@ export interface SgdOptions {
  * y_j and y_k together by α·clip(−2ab·d^(2b−2)/(1 + a·d^(2b)) · (y_j − y_k)),
  * then y_j is pushed away from ⌊(t − next negative epoch)/(epochs_per_sample/rate)⌋
  * vertices drawn uniformly by α·clip(2γb/((0.001 + d²)(1 + a·d^(2b))) · (y_j − y_l))
- * (+4 per coordinate when y_l coincides with y_j, nothing when l = j).
+ * (+4 per coordinate when y_l coincides with y_j, nothing when l = j; a pair
+ * closer than √MIN_NORMAL ≈ 1.5e-154 counts as coincident, so every power is
+ * taken of a normal double).
  * α = α₀ in epochs 0 and 1 and α₀·(1 − (t − 1)/epochs) in epoch t ≥ 1, as umap-learn
  * updates it after each epoch. Clip bounds each coordinate to ±4.
  *
- * d^(2b) is computed once per pair as exp(b·ln d²) (`powPositive`: table-driven
- * ln and exp, relative error < 5e-14) and reused for the attractive
+ * d^(2b) is computed once per pair from tables built for this b (`powWith`:
+ * exponent split, two table loads and a binomial series, within 1e-14 of
+ * `Math.pow` for the distances that occur) and reused for the attractive
  * numerator (d^(2b−2) = d^(2b)/d²), so no step calls `Math.pow`.
  *
  * Negative samples: l = ⌊u·n / 2³²⌋ for 32-bit words u of a xoshiro128**
@@ -92,6 +95,7 @@ export function optimizeLayoutInPlace(y: Float64Array, graph: FuzzyGraph, opts: 
   for (let e = 0; e < nEdges; e++) epsNeg[e] = eps[e] / rate;
   const nextNeg = epsNeg.slice();
 
+  const pow = powTables(b);
   const twoAB = 2 * a * b;
   const twoGB = 2 * gamma * b;
   const clip = GRADIENT_CLIP;
@@ -117,8 +121,8 @@ export function optimizeLayoutInPlace(y: Float64Array, graph: FuzzyGraph, opts: 
       const dx = yjx - y[kx];
       const dy = yjy - y[kx + 1];
       const d2 = dx * dx + dy * dy;
-      if (d2 > 0) {
-        const pw = powPositive(d2, b);
+      if (d2 >= MIN_NORMAL) {
+        const pw = powWith(pow, d2);
         const coeff = (-twoAB * pw) / (d2 * (a * pw + 1));
         let gx = coeff * dx;
         let gy = coeff * dy;
@@ -151,8 +155,8 @@ export function optimizeLayoutInPlace(y: Float64Array, graph: FuzzyGraph, opts: 
         const q2 = ex * ex + ey * ey;
         let gx: number;
         let gy: number;
-        if (q2 > 0) {
-          const pw = powPositive(q2, b);
+        if (q2 >= MIN_NORMAL) {
+          const pw = powWith(pow, q2);
           const coeff = twoGB / ((REPULSION_EPSILON + q2) * (a * pw + 1));
           gx = coeff * ex;
           gy = coeff * ey;
