@@ -47,7 +47,7 @@ export function buildParser(args: string[]): Argv {
           ...DATA_FLAGS,
           method: { type: 'string', choices: ['tsne', 'umap', 'pca'], demandOption: true, describe: 'embedding method' },
           perplexity: { type: 'number', describe: 't-SNE perplexity (default 30)' },
-          init: { type: 'string', choices: ['pca', 'random', 'spectral'], describe: 'initialisation: t-SNE pca|random (default pca), UMAP spectral|pca|random (default spectral)' },
+          init: { type: 'string', choices: ['pca', 'random', 'spectral'], describe: 'initialisation: spectral, pca or random (default: pca for t-SNE, spectral for UMAP)' },
           iterations: { type: 'number', describe: 't-SNE iterations (default 1000)' },
           neighbors: { type: 'number', describe: 'UMAP neighbour count (default 15)' },
           'min-dist': { type: 'number', describe: 'UMAP minimum distance (default 0.1)' },

@@ -33,7 +33,7 @@ export const METHOD_PARAMS: Record<MethodName, readonly ParamDef[]> = {
       source: 'van der Maaten & Hinton 2008; scikit-learn 1.2 default', min: 1, idToken: 'p',
     },
     {
-      key: 'init', fileKey: 'init', flag: 'tsne-init', kind: 'choice', default: 'pca', choices: ['pca', 'random'],
+      key: 'init', fileKey: 'init', flag: 'tsne-init', kind: 'choice', default: 'pca', choices: ['pca', 'random', 'spectral'],
       source: 'Kobak & Linderman 2021 (informative initialisation); scikit-learn 1.2 default', idToken: '',
     },
     {

@@ -6,7 +6,7 @@
 import { Rng, deriveSeed } from '../core/rng.js';
 import type { Embedding, KnnGraph, Matrix, RunSpec } from '../core/types.js';
 import { pca2 } from '../preprocess/pca.js';
-import { runTsne } from './tsne/index.js';
+import { runTsne, type TsneInit } from './tsne/index.js';
 import { fuzzySimplicialSet, runUmap, type FuzzyGraph, type UmapInit } from './umap/index.js';
 
 export interface EmbedContext {
@@ -45,7 +45,7 @@ export function embedOne(ctx: EmbedContext, spec: RunSpec, onProgress?: Progress
         {
           perplexity: spec.params.perplexity ?? 30,
           iterations: spec.params.iterations ?? 1000,
-          init: (spec.params.init as 'pca' | 'random' | undefined) ?? 'pca',
+          init: (spec.params.init as TsneInit | undefined) ?? 'pca',
           threads: ctx.threads ?? 1,
           onProgress,
         },

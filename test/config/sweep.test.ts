@@ -64,6 +64,16 @@ describe('resolveSweep', () => {
     expect(cfg.data.pcaDims).toBe('auto');
   });
 
+  it('takes spectral, pca and random as initialisations for both methods, and rejects others with the allowed list', () => {
+    const cfg = resolveSweep(null, toOverrides({ init: 'spectral,random' }));
+    expect(cfg.tsne.init).toEqual(['spectral', 'random']);
+    expect(cfg.umap.init).toEqual(['spectral', 'random']);
+    const file = parseSweepFile('s.yaml', 'tsne:\n  init: [spectral, pca]\n');
+    expect(resolveSweep(file, toOverrides({})).tsne.init).toEqual(['spectral', 'pca']);
+    const e = inputError(() => parseSweepFile('s.yaml', 'tsne:\n  init: [laplacian]\n'));
+    expect(e.message).toMatch(/^s\.yaml:2:\d+: .*spectral/);
+  });
+
   it('turns a seed count into seeds 1..N', () => {
     expect(resolveSweep(null, toOverrides({ seeds: '4' })).seeds).toEqual([1, 2, 3, 4]);
   });

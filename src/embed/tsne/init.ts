@@ -1,5 +1,5 @@
 /**
- * Starting layouts for t-SNE. Both are tiny (standard deviation 1e-4 along
+ * Starting layouts for t-SNE. All three are tiny (standard deviation 1e-4 along
  * the first axis) so that the early-exaggeration phase starts from an almost
  * collapsed map, as recommended by Kobak & Berens 2019 (Nat. Commun.
  * 10:5416) and done by scikit-learn 1.2.1.
@@ -7,6 +7,8 @@
 import { EigenvalueDecomposition, Matrix as DenseMatrix } from 'ml-matrix';
 import type { Rng } from '../../core/rng.js';
 import type { Matrix } from '../../core/types.js';
+import { spectralCoordinates } from '../init/spectral.js';
+import type { SparseAffinities } from './affinities.js';
 
 /** Standard deviation of the first coordinate of either initial layout. */
 export const INIT_SCALE = 1e-4;
@@ -80,5 +82,34 @@ export function pcaInit(X: Matrix): Float64Array {
 export function randomInit(n: number, rng: Rng): Float64Array {
   const out = new Float64Array(2 * n);
   for (let e = 0; e < 2 * n; e++) out[e] = INIT_SCALE * rng.normal();
+  return out;
+}
+
+/**
+ * Laplacian eigenmaps of the t-SNE affinities P (the initialisation Kobak &
+ * Linderman 2021, Nat. Biotechnol. 39:156–157, compare with PCA and random
+ * starts): `spectralCoordinates` of P read as a weighted graph — the two
+ * smallest non-trivial eigenvectors of its normalised Laplacian, one connected
+ * component at a time, components placed as for UMAP (centroids from X) —
+ * scaled like `pcaInit` so the first coordinate has population standard
+ * deviation 1e-4 and the second keeps its relative scale.
+ *
+ * The eigenvectors come from a fixed start vector, so for a given P the start
+ * is the same for every seed; `rng` only places components of fewer than four
+ * points.
+ *
+ * @returns interleaved n × 2 coordinates.
+ */
+export function spectralInit(P: SparseAffinities, X: Matrix, rng: Rng): Float64Array {
+  const out = spectralCoordinates({ n: P.n, indptr: P.indptr, indices: P.indices, weights: P.values }, rng, { X });
+  const n = P.n;
+  let mean = 0;
+  for (let i = 0; i < n; i++) mean += out[2 * i];
+  mean /= n;
+  let ss = 0;
+  for (let i = 0; i < n; i++) ss += (out[2 * i] - mean) ** 2;
+  const sd = Math.sqrt(ss / n);
+  const scale = sd > 0 ? INIT_SCALE / sd : 0;
+  for (let e = 0; e < 2 * n; e++) out[e] *= scale;
   return out;
 }

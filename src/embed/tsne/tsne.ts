@@ -14,7 +14,7 @@ import { InternalError } from '../../core/errors.js';
 import { exactKnn } from '../../neighbors/exact.js';
 import { jointExactWith, jointFromKnnWith, neighboursForPerplexity } from './affinities.js';
 import type { SparseAffinities } from './affinities.js';
-import { pcaInit, randomInit } from './init.js';
+import { pcaInit, randomInit, spectralInit } from './init.js';
 import { klDivergenceWith } from './kl.js';
 import { optimizeWith } from './optimize.js';
 import { Team } from './team.js';
@@ -37,9 +37,11 @@ export interface TsneOptions {
   /**
    * 'pca' (default): first two principal components of X scaled so the
    * first has standard deviation 1e-4 (seed-independent);
-   * 'random': 1e-4 × N(0, 1) coordinates from `rng`.
+   * 'random': 1e-4 × N(0, 1) coordinates from `rng`;
+   * 'spectral': Laplacian eigenmaps of P scaled the same way (seed-independent
+   * except for components under four points; see `spectralInit`).
    */
-  init?: 'pca' | 'random';
+  init?: TsneInit;
   /** Barnes-Hut opening angle in [0, 1]; default 0.5. */
   theta?: number;
   /** Exact O(n²) gradient with the dense P over all pairs; allowed for n ≤ 2000; default false. */
@@ -55,6 +57,9 @@ export interface TsneOptions {
   /** Called after every iteration with (iterations done, total). */
   onProgress?: (iteration: number, total: number) => void;
 }
+
+export type TsneInit = 'pca' | 'random' | 'spectral';
+export const TSNE_INITS: readonly TsneInit[] = ['pca', 'random', 'spectral'];
 
 export interface TsneResult {
   embedding: Embedding;
@@ -93,7 +98,8 @@ export const MAX_THREADS = 64;
  *   least min(n − 1, ⌊3·perplexity + 1⌋) columns, of which only that many are
  *   used; null to compute them here with the exact search of
  *   src/neighbors/exact.ts. Ignored when `exact`.
- * @param rng used only by the random initialisation.
+ * @param rng used only by the random initialisation (and by the spectral one
+ *   for components of fewer than four points).
  * @throws RangeError for options out of range, including
  *   perplexity ≥ (n − 1)/3 and `exact` with n > 2000.
  */
@@ -125,7 +131,7 @@ export function runTsne(X: Matrix, knn: KnnGraph | null, opts: TsneOptions, rng:
     throw new RangeError(`earlyExaggeration must be a positive number; received ${earlyExaggeration}`);
   }
   if (!Number.isFinite(theta) || theta < 0 || theta > 1) throw new RangeError(`theta must be in [0, 1]; received ${theta}`);
-  if (init !== 'pca' && init !== 'random') throw new RangeError(`init must be 'pca' or 'random'; received ${String(init)}`);
+  if (!TSNE_INITS.includes(init)) throw new RangeError(`init must be 'pca', 'random' or 'spectral'; received ${String(init)}`);
   const learningRate = opts.learningRate === undefined || opts.learningRate === 'auto'
     ? Math.max(n / earlyExaggeration, 200)
     : opts.learningRate;
@@ -150,10 +156,11 @@ export function runTsne(X: Matrix, knn: KnnGraph | null, opts: TsneOptions, rng:
   const team = new Team(n >= PARALLEL_MIN_POINTS ? threads : 1);
   try {
     const graph = exact ? null : knn ?? exactKnn(X, k);
-    const y0 = init === 'pca' ? pcaInit(X) : randomInit(n, rng);
+    const y0pre = init === 'pca' ? pcaInit(X) : init === 'random' ? randomInit(n, rng) : null;
     const P: SparseAffinities = graph === null
       ? jointExactWith(X, perplexity, team)
       : jointFromKnnWith(graph, perplexity, k, team);
+    const y0 = y0pre ?? spectralInit(P, X, rng);
     const y = optimizeWith(P, y0, {
       iterations,
       exaggerationIterations,
