@@ -5,6 +5,7 @@
  */
 import type { MethodName, MethodParams, RunSpec, SettingSpec } from '../core/types.js';
 import { checkAgainstRows, settingId, withDefaults } from '../embed/methods.js';
+import { RNX_EXACT_LIMIT, RNX_SAMPLE_ROWS } from '../metrics/coranking.js';
 import type { SweepConfig } from './sweep.js';
 
 export interface Plan {
@@ -96,14 +97,22 @@ export function estimateRunSeconds(method: MethodName, params: MethodParams, n: 
 export const COST = {
   tsnePerNlognIter: 1.1e-7,
   tsnePerEdgeIter: 1.5e-9,
-  umapPerEdgeEpoch: 4.7e-8,
-  umapPerPoint: 5.3e-4,
+  umapPerEdgeEpoch: 3.6e-8,
+  umapPerPoint: 4.0e-4,
   pcaPerCell: 1e-6,
   knnPerPairDim: 1.2e-9,
+  /** Scoring index: per (query row × row × (reference column + 1)); demo: 1.0 s at 1,500 × 100. */
+  scoringIndexPerCell: 4.4e-9,
+  /** Setting stability, main thread: per (seed pair × row); demo: 2.1 s for 21 pairs at 1,500 rows. */
+  stabilityPerPairRow: 6.7e-5,
   scorePerRun: 0.05,
 };
 
-/** Whole-sweep estimate: one-off neighbour search, then runs spread over the workers. */
+/**
+ * Whole-sweep estimate: one-off neighbour search and scoring index, then
+ * runs spread over the workers, then the per-setting stability scores (on
+ * the main thread, one seed pair at a time).
+ */
 export function estimateSweepSeconds(
   runs: RunSpec[],
   n: number,
@@ -111,8 +120,10 @@ export function estimateSweepSeconds(
   workers: number,
   kMax: number,
   dReference: number = d,
-): { total: number; neighbours: number; runs: number } {
+): { total: number; neighbours: number; scoringIndex: number; runs: number; stability: number } {
   const neighbours = COST.knnPerPairDim * n * n * (d + (dReference !== d ? dReference : 0)) + 1e-7 * n * kMax;
+  const queries = n <= RNX_EXACT_LIMIT ? n : Math.min(n, RNX_SAMPLE_ROWS);
+  const scoringIndex = COST.scoringIndexPerCell * queries * n * (dReference + 1);
   const perRun = runs.map((r) => estimateRunSeconds(r.method, r.params, n) + COST.scorePerRun * (n / 1000));
   // Longest-first greedy assignment to workers, as the pool roughly behaves.
   const loads = new Array<number>(Math.max(1, workers)).fill(0);
@@ -122,5 +133,10 @@ export function estimateSweepSeconds(
     loads[m] += t * (workers > 1 ? 1.15 : 1); // two busy cores run ~15% slower each (measured)
   }
   const runsTime = Math.max(...loads);
-  return { total: neighbours + runsTime, neighbours, runs: runsTime };
+  const seedsPerSetting = new Map<string, number>();
+  for (const r of runs) seedsPerSetting.set(r.settingId, (seedsPerSetting.get(r.settingId) ?? 0) + 1);
+  let pairs = 0;
+  for (const s of seedsPerSetting.values()) pairs += (s * (s - 1)) / 2;
+  const stability = COST.stabilityPerPairRow * n * pairs;
+  return { total: neighbours + scoringIndex + runsTime + stability, neighbours, scoringIndex, runs: runsTime, stability };
 }

@@ -77,7 +77,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const knnReference = prep.reference === X && knn.k >= refK ? knnPrefix(knn, refK) : neighbours(prep.reference, refK, threads);
   progress.tick(1);
 
-  progress.stage('scoring index', 1);
+  progress.stage('scoring index', 1, est.scoringIndex);
   const choice = chooseClusters(X, dataset.labels, cfg.data.label, cfg.clusters);
   const labelCodes = dataset.labels ? codesOf(dataset.labels) : null;
   const groups = labelCodes ? null : kmeansLabels(X, choice.clusters, new Rng(deriveSeed(DATA_SEED, 'groups')));
@@ -103,7 +103,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const points = new Map<string, Float64Array>();
   const records: RunRecord[] = runs.map((spec, i) => toRecord(spec, outcomes[i], X.n, embeddings));
 
-  progress.stage('stability', settings.length);
+  progress.stage('stability', settings.length, est.stability);
   const inputs = settings.map((spec, si) => {
     const mine = records.filter((r) => r.setting === spec.id);
     const embs = mine.filter((r) => r.status === 'ok').map((r) => embeddings.get(r.id)!);

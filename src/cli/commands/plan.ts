@@ -30,7 +30,10 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
     lines.push(pad(s.id, 28) + pad(s.method, 7) + pad(params || '—', 34) + pad(String(s.seeds.length), 6) + fmtTime(estimateRunSeconds(s.method, s.params, n)));
   }
   lines.push('');
-  lines.push(`estimated time: ${fmtTime(est.total)} (neighbours ${fmtTime(est.neighbours)}, runs ${fmtTime(est.runs)} on ${Math.max(1, workers)} worker${workers === 1 ? '' : 's'})`);
+  lines.push(
+    `estimated time: ${fmtTime(est.total)} (neighbours ${fmtTime(est.neighbours)}, scoring index ${fmtTime(est.scoringIndex)}, ` +
+      `runs ${fmtTime(est.runs)} on ${Math.max(1, workers)} worker${workers === 1 ? '' : 's'}, stability ${fmtTime(est.stability)})`,
+  );
   process.stdout.write(lines.join('\n') + '\n');
 }
 
