@@ -43,7 +43,10 @@ export interface RunRecord {
   method: string;
   params: Record<string, number | string>;
   seed: number;
+  /** Seconds the embedding took (wall clock, in its worker). */
   seconds: number;
+  /** Seconds scoring it took (wall clock, in its worker). */
+  score_seconds?: number;
   cache: 'computed' | 'reused';
   status: 'ok' | 'failed';
   error?: string;
@@ -173,6 +176,12 @@ export interface ResultsJson {
     resample?: number;
     /** Seconds the whole audit took (wall clock). */
     seconds?: number;
+    /**
+     * Wall-clock seconds of the stages after loading and preprocessing:
+     * neighbours, scoring_index, runs (embedding and scoring on the workers)
+     * and stability (per-setting scores and ranking).
+     */
+    stage_seconds?: Record<string, number>;
     /** The time `plan` estimated for it. */
     estimated_seconds?: number;
   };

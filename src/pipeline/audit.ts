@@ -69,6 +69,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const X = prep.X;
   const kMax = neighboursNeeded(settings, cfg.k, X.n);
   const est = estimateSweepSeconds(runs, X.n, X.d, Math.max(1, req.workers), kMax, prep.reference.d);
+  const clock = stageClock();
   progress.stage('neighbours', 1, est.neighbours);
   const knn = neighbours(X, kMax, threads);
   // Scores measure faithfulness to the features before PCA; without PCA that is the same graph.
@@ -76,6 +77,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const refK = Math.min(X.n - 1, 2 * cfg.k + 10);
   const knnReference = prep.reference === X && knn.k >= refK ? knnPrefix(knn, refK) : neighbours(prep.reference, refK, threads);
   progress.tick(1);
+  clock.lap('neighbours');
 
   progress.stage('scoring index', 1, est.scoringIndex);
   const choice = chooseClusters(X, dataset.labels, cfg.data.label, cfg.clusters);
@@ -83,6 +85,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const groups = labelCodes ? null : kmeansLabels(X, choice.clusters, new Rng(deriveSeed(DATA_SEED, 'groups')));
   const scoring = buildScoringIndex(prep.reference, knnReference, { k: cfg.k, labels: labelCodes, groups, seed: DATA_SEED });
   progress.tick(1);
+  clock.lap('scoring_index');
 
   const ctx: RunContext = { X, knn, k: cfg.k, reference: prep.reference, knnReference, resample: cfg.resample, scoring, fuzzyGraphs: new Map() };
   const executor: Executor = req.workers > 0 ? new PoolExecutor(ctx, req.workers) : new InlineExecutor(ctx, runOne);
@@ -102,6 +105,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const embeddings = new Map<string, Embedding>();
   const points = new Map<string, Float64Array>();
   const records: RunRecord[] = runs.map((spec, i) => toRecord(spec, outcomes[i], X.n, embeddings));
+  clock.lap('runs');
 
   progress.stage('stability', settings.length, est.stability);
   const inputs = settings.map((spec, si) => {
@@ -112,6 +116,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
     return { spec, runs: mine, stability };
   });
   const settingRecords = rankSettings(inputs, cfg.rankBy);
+  clock.lap('stability');
 
   const results: ResultsJson = {
     format: RESULTS_FORMAT,
@@ -148,11 +153,26 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
       resample: cfg.resample,
       estimated_seconds: Math.round(est.total * 10) / 10,
       seconds: Math.round((performance.now() - started) / 100) / 10,
+      stage_seconds: clock.laps,
     },
     runs: records,
     settings: settingRecords,
   };
   return { results, embeddings, points, warnings };
+}
+
+/** Wall-clock seconds between successive laps, by stage name (rounded to 0.01 s). */
+function stageClock(): { lap(name: string): void; laps: Record<string, number> } {
+  let last = performance.now();
+  const laps: Record<string, number> = {};
+  return {
+    laps,
+    lap(name: string) {
+      const now = performance.now();
+      laps[name] = Math.round((now - last) / 10) / 100;
+      last = now;
+    },
+  };
 }
 
 function toRecord(spec: RunSpec, o: RunOutcome, n: number, embeddings: Map<string, Embedding>): RunRecord {
@@ -169,7 +189,7 @@ function toRecord(spec: RunSpec, o: RunOutcome, n: number, embeddings: Map<strin
   }
   const out = o.output;
   embeddings.set(spec.id, out.rows ? { n: out.rows.length, data: out.embedding, rows: out.rows } : { n, data: out.embedding });
-  const rec: RunRecord = { ...base, seconds: round3(out.seconds), status: 'ok', embedding: embeddingPath(spec.id), metrics: out.metrics, rnx_curve: out.rnxCurve };
+  const rec: RunRecord = { ...base, seconds: round3(out.seconds), score_seconds: round3(out.scoreSeconds), status: 'ok', embedding: embeddingPath(spec.id), metrics: out.metrics, rnx_curve: out.rnxCurve };
   if (out.rows) rec.rows = out.rows.length;
   return rec;
 }

@@ -40,7 +40,10 @@ export interface RunOutput {
   rows?: Int32Array;
   /** Interleaved x, y of every point in input order. */
   embedding: Float64Array;
+  /** Seconds spent embedding (resample included). */
   seconds: number;
+  /** Seconds spent scoring the embedding. */
+  scoreSeconds: number;
   info: Record<string, number>;
   metrics: RunMetrics;
   rnxCurve: Curve;
@@ -61,7 +64,8 @@ export function runOne(full: RunContext, spec: RunSpec, onProgress?: Progress): 
   const rows = resampleRows(full.X.n, full.resample, spec.seed);
   const ctx = rows ? subsetContext(full, rows) : full;
   const { embedding, info } = embedOne(ctx, spec, onProgress);
-  const seconds = (performance.now() - t0) / 1000;
+  const t1 = performance.now();
+  const seconds = (t1 - t0) / 1000;
   const Y = embeddingAsMatrix(embedding);
   const knnX: KnnGraph = ctx.knnReference.k === ctx.k ? ctx.knnReference : knnPrefix(ctx.knnReference, ctx.k);
   const knnY = knnOf(Y, ctx.k);
@@ -78,7 +82,8 @@ export function runOne(full: RunContext, spec: RunSpec, onProgress?: Progress): 
     label_knn_accuracy: finiteOrNull(structure.label_knn_accuracy),
   };
   if (spec.method === 'tsne') metrics.kl_divergence = finiteOrNull(info.kl_divergence ?? null);
-  const out: RunOutput = { id: spec.id, embedding: embedding.data, seconds, info, metrics, rnxCurve: structure.rnx_curve };
+  const scoreSeconds = (performance.now() - t1) / 1000;
+  const out: RunOutput = { id: spec.id, embedding: embedding.data, seconds, scoreSeconds, info, metrics, rnxCurve: structure.rnx_curve };
   if (rows) out.rows = rows;
   return out;
 }

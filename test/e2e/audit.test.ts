@@ -44,6 +44,7 @@ describe('steadyfold audit on the iris data', () => {
       expect(run.metrics.trustworthiness).toBeGreaterThan(0.8);
       expect(run.metrics.continuity).toBeGreaterThan(0.8);
       if (run.method === 'tsne') expect(run.metrics.kl_divergence).toBeGreaterThan(0);
+      expect(run.score_seconds).toBeGreaterThan(0);
     }
     expect(results.settings).toHaveLength(4);
     for (const s of results.settings) {
@@ -52,6 +53,11 @@ describe('steadyfold audit on the iris data', () => {
       expect(s.verdict.length).toBeGreaterThan(20);
     }
     expect(results.sweep.clusters).toBe(3);
+    const stages = results.sweep.stage_seconds!;
+    expect(Object.keys(stages)).toEqual(['neighbours', 'scoring_index', 'runs', 'stability']);
+    const sum = Object.values(stages).reduce((a, b) => a + b, 0);
+    expect(sum).toBeLessThanOrEqual(results.sweep.seconds! + 0.05);
+    expect(stages.runs).toBeGreaterThan(0);
   });
 
   it('flags t-SNE with PCA initialisation as seed-invariant and leaves it unranked', () => {
