@@ -2,9 +2,9 @@
  * Agreement between partitions and quality of a partition: adjusted Rand
  * index, seeded k-means labels, silhouette, and Hennig's per-cluster Jaccard.
  */
-import { kmeans } from 'ml-kmeans';
+import { Rng } from '../core/rng.js';
 import type { Matrix } from '../core/types.js';
-import type { Rng } from '../core/rng.js';
+import { kmeansOnce } from './kmeans.js';
 
 /** Cluster labels, one integer per point. */
 export type Labels = Int32Array | readonly number[];
@@ -60,14 +60,14 @@ export function adjustedRandIndex(a: Labels, b: Labels): number {
 export interface KmeansOptions {
   /** Number of k-means++ starts; the partition with the smallest inertia wins. Default 10. */
   readonly restarts?: number;
-  /** Iteration cap per start. Default 100 (ml-kmeans 7.0.1 default). */
+  /** Iteration cap per start. Default 100. */
   readonly maxIterations?: number;
 }
 
 /**
- * Seeded k-means (Lloyd's algorithm with k-means++ starts, Arthur &
- * Vassilvitskii 2007) via ml-kmeans 7.0.1. Each start gets a numeric seed drawn
- * from `rng`; the start with the lowest inertia (within-cluster sum of squared
+ * Seeded k-means (Lloyd's algorithm with greedy k-means++ starts, Arthur &
+ * Vassilvitskii 2007; ./kmeans.ts). Each start gets a 32-bit seed drawn from
+ * `rng`; the start with the lowest inertia (within-cluster sum of squared
  * distances to the cluster means) is kept, ties going to the earlier start.
  * Labels are then renumbered 0, 1, 2, … in order of first appearance, so equal
  * partitions give equal arrays.
@@ -102,20 +102,16 @@ export function kmeansLabels(Y: Matrix, k: number, rng: Rng, opts: KmeansOptions
   const seeds = new Uint32Array(restarts);
   for (let r = 0; r < restarts; r++) seeds[r] = rng.nextU32();
 
-  const distinct = distinctRows(Y);
-  if (distinct.count <= k) return canonical(distinct.ids);
+  const distinct = distinctRows(Y, k);
+  if (distinct !== null) return canonical(distinct.ids);
 
-  const rows: number[][] = new Array(n);
-  for (let i = 0; i < n; i++) rows[i] = Array.from(data.subarray(i * d, (i + 1) * d));
   let best: Int32Array | null = null;
   let bestInertia = Infinity;
   for (let r = 0; r < restarts; r++) {
-    const result = kmeans(rows, k, { initialization: 'kmeans++', seed: seeds[r], maxIterations });
-    const labels = Int32Array.from(result.clusters);
-    const inertia = partitionInertia(Y, labels, k);
-    if (inertia < bestInertia) {
-      bestInertia = inertia;
-      best = labels;
+    const run = kmeansOnce(Y, k, new Rng(seeds[r]), maxIterations);
+    if (run.inertia < bestInertia) {
+      bestInertia = run.inertia;
+      best = run.labels;
     }
   }
   if (best === null) throw new RangeError('k-means produced no finite partition');
@@ -287,8 +283,11 @@ function canonical(labels: Int32Array): Int32Array {
   return compactLabels(labels, 'labels').ids;
 }
 
-/** Id of each row's distinct position (first appearance order) and how many there are. */
-function distinctRows(m: Matrix): Compact {
+/**
+ * Id of each row's distinct position (first appearance order) and how many
+ * there are — or null as soon as there are more than `limit`.
+ */
+function distinctRows(m: Matrix, limit: number): Compact | null {
   const { n, d, data } = m;
   const seen = new Map<string, number>();
   const ids = new Int32Array(n);
@@ -298,6 +297,7 @@ function distinctRows(m: Matrix): Compact {
     let id = seen.get(key);
     if (id === undefined) {
       id = seen.size;
+      if (id >= limit) return null;
       seen.set(key, id);
     }
     ids[i] = id;
@@ -305,26 +305,3 @@ function distinctRows(m: Matrix): Compact {
   return { ids, count: seen.size };
 }
 
-/** Within-cluster sum of squared distances to the cluster means. */
-function partitionInertia(Y: Matrix, labels: Int32Array, k: number): number {
-  const { n, d, data } = Y;
-  const means = new Float64Array(k * d);
-  const size = new Float64Array(k);
-  for (let i = 0; i < n; i++) {
-    const c = labels[i];
-    size[c]++;
-    for (let t = 0; t < d; t++) means[c * d + t] += data[i * d + t];
-  }
-  for (let c = 0; c < k; c++) {
-    if (size[c] > 0) for (let t = 0; t < d; t++) means[c * d + t] /= size[c];
-  }
-  let inertia = 0;
-  for (let i = 0; i < n; i++) {
-    const c = labels[i];
-    for (let t = 0; t < d; t++) {
-      const diff = data[i * d + t] - means[c * d + t];
-      inertia += diff * diff;
-    }
-  }
-  return inertia;
-}

@@ -21,8 +21,8 @@ import { leastStablePoints, pointStabilityStats } from '../metrics/points.js';
 import { buildScoringIndex, distanceSample, scoringSummary } from '../metrics/scoring.js';
 import { rankSettings } from '../rank/rank.js';
 import { chooseClusters } from './clusters.js';
-import { loadData, neighbours, preprocess, DATA_SEED } from './prepare.js';
-import { knnPrefix } from '../neighbors/exact.js';
+import { loadData, neighbours, preprocess, scoringNeighbours, DATA_SEED } from './prepare.js';
+import { EXACT_KNN_LIMIT, knnPrefix } from '../neighbors/exact.js';
 import type { ProgressSink } from './progress.js';
 import { runOne, type RunContext } from './run-one.js';
 
@@ -75,7 +75,9 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   // Scores measure faithfulness to the features before PCA; without PCA that is the same graph.
   // Spare columns let subsets (--resample) find their neighbours without a rescan.
   const refK = Math.min(X.n - 1, 2 * cfg.k + 10);
-  const knnReference = prep.reference === X && knn.k >= refK ? knnPrefix(knn, refK) : neighbours(prep.reference, refK, threads);
+  // Scores need exact lists; the methods' graph is exact only up to EXACT_KNN_LIMIT rows.
+  const knnReference =
+    prep.reference === X && knn.k >= refK && X.n <= EXACT_KNN_LIMIT ? knnPrefix(knn, refK) : scoringNeighbours(prep.reference, refK, threads);
   progress.tick(1);
   clock.lap('neighbours');
 

@@ -8,7 +8,7 @@ import type { Dataset, KnnGraph, Matrix } from '../core/types.js';
 import type { DataOptions } from '../config/sweep.js';
 import { DEFAULTS } from '../config/sweep.js';
 import { readTable } from '../io/csv.js';
-import { knnOf } from '../neighbors/exact.js';
+import { exactKnn, knnOf } from '../neighbors/exact.js';
 import { randomizedPca } from '../preprocess/pca.js';
 import { zScore } from '../preprocess/scale.js';
 
@@ -60,4 +60,14 @@ export function preprocess(dataset: Dataset, warnings: string[], opts: DataOptio
  */
 export function neighbours(X: Matrix, k: number, threads = 1): KnnGraph {
   return knnOf(X, k, { rng: new Rng(deriveSeed(DATA_SEED, 'knn')), threads });
+}
+
+/**
+ * Neighbour graph for scoring: always exact, whatever n. Trustworthiness and
+ * continuity read ranks off these lists, and an approximate list (a missed
+ * true neighbour shifts every later rank) would bias them; the embedding
+ * methods, which only need good neighbours, use `neighbours`.
+ */
+export function scoringNeighbours(X: Matrix, k: number, threads = 1): KnnGraph {
+  return exactKnn(X, k, { threads });
 }

@@ -6,9 +6,9 @@
 import type { KnnGraph, Matrix, RunSpec } from '../core/types.js';
 import { embeddingAsMatrix, selectRows } from '../core/matrix.js';
 import { resampleRows } from './resample.js';
-import { neighbours } from './prepare.js';
+import { neighbours, scoringNeighbours } from './prepare.js';
 import { embedOne, type EmbedContext, type Progress } from '../embed/run.js';
-import { knnOf, knnPrefix } from '../neighbors/exact.js';
+import { EXACT_KNN_LIMIT, knnPrefix } from '../neighbors/exact.js';
 import { continuity, knnOverlap, trustworthiness } from '../metrics/neighbourhood.js';
 import { scoreStructure, type ScoringIndex } from '../metrics/scoring.js';
 import type { Curve, RunMetrics } from '../core/results.js';
@@ -55,7 +55,7 @@ export function subsetContext(ctx: RunContext, rows: Int32Array): RunContext {
   const knn = neighbours(X, Math.min(ctx.knn.k, X.n - 1));
   const sameSpace = ctx.reference === ctx.X;
   const reference = sameSpace ? X : selectRows(ctx.reference, rows);
-  const knnReference = sameSpace ? knnPrefix(knn, Math.min(ctx.k, knn.k)) : neighbours(reference, ctx.k);
+  const knnReference = sameSpace && X.n <= EXACT_KNN_LIMIT ? knnPrefix(knn, Math.min(ctx.k, knn.k)) : scoringNeighbours(reference, ctx.k);
   return { X, knn, k: ctx.k, reference, knnReference, resample: 1, scoring: ctx.scoring };
 }
 
@@ -68,7 +68,7 @@ export function runOne(full: RunContext, spec: RunSpec, onProgress?: Progress): 
   const seconds = (t1 - t0) / 1000;
   const Y = embeddingAsMatrix(embedding);
   const knnX: KnnGraph = ctx.knnReference.k === ctx.k ? ctx.knnReference : knnPrefix(ctx.knnReference, ctx.k);
-  const knnY = knnOf(Y, ctx.k);
+  const knnY = scoringNeighbours(Y, ctx.k);
   const structure = scoreStructure(full.scoring, Y, knnY, rows ?? undefined);
   const metrics: RunMetrics = {
     trustworthiness: trustworthiness(ctx.reference, Y, ctx.k, { knnX, knnY }),

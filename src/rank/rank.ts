@@ -158,7 +158,7 @@ function judge(rec: Omit<SettingRecord, 'verdict'>, total: number, rankBy: strin
   const local = `trustworthiness ${pm(m.trustworthiness)}, continuity ${pm(m.continuity)}, kNN overlap ${pm(m.knn_overlap)}`;
   const head = rec.rank !== null ? `${rec.id} ranks ${rec.rank} of ${total} by ${rankBy}${rec.score !== null ? ` (composite ${f3(rec.score)})` : ''}` : `${rec.id} is not ranked by ${rankBy}`;
   if (rec.method === 'pca') {
-    return `${head}; the linear baseline: ${local}. PCA is deterministic, so seeds do not apply.`;
+    return `${rec.id} is the linear baseline and is not ranked: ${local}. PCA is deterministic, so seeds do not apply.`;
   }
   if (st.identical_maps) {
     return `${head}: every one of its ${okSeeds} seeds gave the same map, so its seeds tested nothing about stability; ${local}.`;

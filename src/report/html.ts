@@ -46,8 +46,8 @@ figure svg [data-r]:hover,figure svg .hl{stroke:#000;stroke-width:1.5}
 
 /*
  * Table sorting: a click (or Enter/Space) on a header orders the rows by that
- * column; a second click reverses. Missing values always go last; equal values
- * keep their rank order (data-i).
+ * column (text ignoring case, then by case); a second click reverses. Missing
+ * values always go last; equal values keep their rank order (data-i).
  */
 const SCRIPT = `
 (function(){
@@ -63,7 +63,7 @@ var rows=Array.prototype.slice.call(b.rows);
 rows.sort(function(x,y){
 var a=key(x,c),z=key(y,c),o=0;
 if(a===null&&z===null)o=0;else if(a===null)return 1;else if(z===null)return -1;
-else if(num)o=dir*(Number(a)-Number(z));else o=dir*(a<z?-1:a>z?1:0);
+else if(num)o=dir*(Number(a)-Number(z));else{var p=a.toLowerCase(),q=z.toLowerCase();o=dir*(p<q?-1:p>q?1:a<z?-1:a>z?1:0);}
 return o||(Number(x.getAttribute('data-i'))-Number(y.getAttribute('data-i')));});
 for(var i=0;i<rows.length;i++)b.appendChild(rows[i]);}
 for(var c=0;c<hs.length;c++){(function(c){var h=hs[c];h.className+=' sortable';h.tabIndex=0;

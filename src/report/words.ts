@@ -118,6 +118,8 @@ export function settingSentence(s: SettingRecord, rankedCount: number, results: 
       `${perturbationPhrase(s, results)}.`
     );
   }
+  if (s.method === 'pca') return `${head}: the linear baseline, one run; PCA is deterministic, so there is no stability across seeds to measure.`;
+  if (st.pairs === 0) return `${head}: only one run succeeded, so its stability across seeds was not measured; ${perturbationPhrase(s, results)}.`;
   const parts: string[] = [];
   parts.push(st.clusters && st.clusters.length > 0 ? clusterPhrase(st.clusters, 4) : ariPhrase(st.ari_mean));
   if (st.points) {

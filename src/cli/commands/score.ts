@@ -7,7 +7,7 @@
 import { InputError } from '../../core/errors.js';
 import { embeddingAsMatrix } from '../../core/matrix.js';
 import { readEmbeddingCsv } from '../../io/embedding-csv.js';
-import { knnOf } from '../../neighbors/exact.js';
+import { exactKnn } from '../../neighbors/exact.js';
 import { continuity, knnOverlap, trustworthiness } from '../../metrics/neighbourhood.js';
 import { procrustes } from '../../metrics/procrustes.js';
 import { DATA_SEED, loadData, preprocess } from '../../pipeline/prepare.js';
@@ -29,8 +29,8 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
   if (emb.n !== X.n) throw new InputError('score.row-count', `${embPath}: has ${emb.n} rows but ${dataset.path} has ${X.n}; the embedding must have one row per data row, in the same order`);
   if (!Number.isInteger(k) || k < 1 || k > X.n - 2) throw new InputError('flags.k', `--k: ${String(argv.k)} is not allowed; give a whole number from 1 to n − 2 = ${X.n - 2}`);
   const Y = embeddingAsMatrix(emb);
-  const knnX = knnOf(X, Math.min(X.n - 1, k));
-  const knnY = knnOf(Y, k);
+  const knnX = exactKnn(X, Math.min(X.n - 1, k));
+  const knnY = exactKnn(Y, k);
   const labels = dataset.labels ? labelCodes(dataset.labels) : null;
   const index = buildScoringIndex(X, knnX, { k, labels, seed: DATA_SEED });
   const structure = scoreStructure(index, Y, knnY);
@@ -51,7 +51,7 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
     if (other.n !== X.n) throw new InputError('score.row-count', `${argv.against}: has ${other.n} rows but ${embPath} has ${X.n}; both embeddings must cover the same rows in the same order`);
     const Z = embeddingAsMatrix(other);
     scores.procrustes_disparity = procrustes(Y, Z).disparity;
-    scores.knn_overlap_between = knnOverlap(knnY, knnOf(Z, k), k).fraction;
+    scores.knn_overlap_between = knnOverlap(knnY, exactKnn(Z, k), k).fraction;
   }
   if (argv.json === true) {
     process.stdout.write(JSON.stringify({ data: dataset.path, embedding: embPath, n: X.n, k, scores, sampling }, null, 2) + '\n');
