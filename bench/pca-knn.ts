@@ -1,7 +1,7 @@
 /**
  * Benchmark of the preprocessing and neighbour stages.
  * Build with `npm run build`, then run
- *   node dist/bench/pca-knn.js [--repeat N] [--check] [--sizes 10000,20000,50000] [--skip-pca] [--skip-knn]
+ *   node dist/bench/pca-knn.js [--repeat N] [--check] [--sizes 10000,20000,50000] [--skip-pca] [--skip-knn] [--skip-map]
  *
  * PCA: randomized block Krylov PCA of 3000 × 1280 matrices down to 50
  * components, on one and two threads. `--check` also compares the top-10
@@ -140,6 +140,30 @@ function knnBench(repeat: number, sizes: number[]): void {
   }
 }
 
+/** Maps (2-D): the grid search that exactKnn uses for them against the brute force (a zero third column). */
+function mapKnnBench(repeat: number, sizes: number[]): void {
+  const k = 15;
+  process.stdout.write(`\nk-nearest neighbours in a 2-D map, k = ${k}: grid search (exactKnn on 2 columns) vs brute force\n`);
+  const header = ['n', 'grid s', 'brute force s', 'same bytes'];
+  const widths = header.map((h) => Math.max(h.length, 7));
+  const line = (r: string[]): string => r.map((v, c) => v.padEnd(widths[c])).join(' | ') + '\n';
+  process.stdout.write(line(header) + widths.map((w) => '-'.repeat(w)).join('-|-') + '\n');
+  for (const n of sizes) {
+    const rng = new Rng(3);
+    const map = new Float64Array(2 * n);
+    const wide = new Float64Array(3 * n);
+    for (let i = 0; i < n; i++) {
+      // Ten blobs on a circle, as a t-SNE map of ten clusters looks.
+      const c = i % 10;
+      map[2 * i] = wide[3 * i] = 30 * Math.cos(c) + rng.normal();
+      map[2 * i + 1] = wide[3 * i + 1] = 30 * Math.sin(c) + rng.normal();
+    }
+    const g = timeIt(repeat, () => exactKnn({ n, d: 2, data: map }, k));
+    const b = timeIt(n > 20_000 ? 1 : repeat, () => exactKnn({ n, d: 3, data: wide }, k));
+    process.stdout.write(line([String(n), g.seconds.toFixed(3), b.seconds.toFixed(2), String(sameBytes(g.value, b.value))]));
+  }
+}
+
 function main(): void {
   const args = process.argv.slice(2);
   const ri = args.indexOf('--repeat');
@@ -150,6 +174,7 @@ function main(): void {
   process.stdout.write(`load average before: ${load()}\n`);
   if (!args.includes('--skip-pca')) pcaBench(repeat, args.includes('--check'));
   if (!args.includes('--skip-knn')) knnBench(repeat, sizes);
+  if (!args.includes('--skip-map')) mapKnnBench(repeat, sizes);
   process.stdout.write(`\nload average after: ${load()} (${repeat} repeats; medians)\n`);
 }
 

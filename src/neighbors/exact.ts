@@ -14,7 +14,11 @@ import type { KnnGraph, Matrix } from '../core/types.js';
 import { runTasks, sharedFloat64, sharedInt32, startWorkers, toSharedFloat64 } from '../preprocess/parallel.js';
 import type { ThreadTask } from '../preprocess/tasks.js';
 import { BLOCK, checkKnnInput, mergeRows, scanBlocks, splitBlocks } from './exact-tiles.js';
+import { gridKnn2d } from './grid2d.js';
 import { nnDescent } from './nndescent.js';
+
+/** From this many rows, 2-D inputs go to the grid search of ./grid2d.ts (same result, about O(n·k)). */
+export const GRID_MIN_ROWS = 500;
 
 /** Below this many rows a multi-threaded exact search runs on one thread (start-up would cost more than it saves). */
 const PARALLEL_MIN_ROWS = 2_000;
@@ -35,6 +39,9 @@ export interface ExactKnnOptions {
  * Returns n × k indices (Int32Array) and the matching distances (not squared).
  * Requires 1 ≤ k ≤ n − 1 (RangeError otherwise) and finite entries.
  *
+ * Two-column inputs of at least `GRID_MIN_ROWS` rows (maps) go to the grid
+ * search of ./grid2d.ts, which returns the same bytes in about O(n·k) time.
+ *
  * Cost: n²·d/2 subtract-multiply-adds (each pair once, offered to both rows),
  * memory O(n·k) per thread. Rows are processed in blocks of 64 against blocks
  * of 64, with a 4 × 4 register tile in the distance loop; each row keeps its
@@ -45,6 +52,7 @@ export function exactKnn(m: Matrix, k: number, opts: ExactKnnOptions = {}): KnnG
   const { n, d, data } = m;
   checkKnnInput(m, k);
   const threads = checkThreads(opts.threads);
+  if (d === 2 && n >= GRID_MIN_ROWS) return gridKnn2d(m, k);
   const blocks = Math.ceil(n / BLOCK);
   const parts = n >= PARALLEL_MIN_ROWS ? Math.min(threads, blocks) : 1;
 

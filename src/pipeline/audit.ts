@@ -7,7 +7,7 @@ import os from 'node:os';
 import { InputError } from '../core/errors.js';
 import { RESULTS_FORMAT, type ResultsJson, type RunRecord, type StabilityRecord } from '../core/results.js';
 import { Rng, deriveSeed } from '../core/rng.js';
-import type { Dataset, Embedding, RunSpec, SettingSpec } from '../core/types.js';
+import type { Dataset, Embedding, KnnGraph, RunSpec, SettingSpec } from '../core/types.js';
 import { VERSION } from '../core/version.js';
 import { expandGrid, neighboursNeeded, rowLimitProblems, estimateSweepSeconds } from '../config/plan.js';
 import type { SweepConfig } from '../config/sweep.js';
@@ -71,13 +71,21 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const est = estimateSweepSeconds(runs, X.n, X.d, Math.max(1, req.workers), kMax, prep.reference.d);
   const clock = stageClock();
   progress.stage('neighbours', 1, est.neighbours);
-  const knn = neighbours(X, kMax, threads);
-  // Scores measure faithfulness to the features before PCA; without PCA that is the same graph.
+  // Scores measure faithfulness to the features before PCA; without PCA that is the same space.
   // Spare columns let subsets (--resample) find their neighbours without a rescan.
   const refK = Math.min(X.n - 1, 2 * cfg.k + 10);
-  // Scores need exact lists; the methods' graph is exact only up to EXACT_KNN_LIMIT rows.
-  const knnReference =
-    prep.reference === X && knn.k >= refK && X.n <= EXACT_KNN_LIMIT ? knnPrefix(knn, refK) : scoringNeighbours(prep.reference, refK, threads);
+  let knn: KnnGraph;
+  let knnReference: KnnGraph;
+  if (prep.reference === X && X.n <= EXACT_KNN_LIMIT) {
+    // One exact search serves the methods and the scores.
+    const both = neighbours(X, Math.max(kMax, refK), threads);
+    knn = both.k === kMax ? both : knnPrefix(both, kMax);
+    knnReference = both.k === refK ? both : knnPrefix(both, refK);
+  } else {
+    knn = neighbours(X, kMax, threads);
+    // Scores need exact lists; the methods' graph is exact only up to EXACT_KNN_LIMIT rows.
+    knnReference = scoringNeighbours(prep.reference, refK, threads);
+  }
   progress.tick(1);
   clock.lap('neighbours');
 
