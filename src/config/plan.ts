@@ -103,8 +103,8 @@ export const COST = {
   knnPerPairDim: 1.2e-9,
   /** Scoring index: per (query row × row × (reference column + 1)); demo: 1.0 s at 1,500 × 100. */
   scoringIndexPerCell: 4.4e-9,
-  /** Setting stability, main thread: per (seed pair × row); demo: 2.1 s for 21 pairs at 1,500 rows. */
-  stabilityPerPairRow: 6.7e-5,
+  /** Setting stability, main thread: per (seed pair × row); demo: 0.48 s for 21 pairs at 1,500 rows. */
+  stabilityPerPairRow: 1.5e-5,
   scorePerRun: 0.05,
 };
 
