@@ -163,6 +163,11 @@ export interface ResultsJson {
       distance_pairs: number;
       /** Whether the distance pairs are all pairs (false: a seeded sample). */
       distance_all_pairs: boolean;
+      /**
+       * Rows trustworthiness and continuity average over: all rows up to 10,000,
+       * else a seeded sample of 5,000 (each with exact ranks among all rows).
+       */
+      rank_rows?: number;
     };
   };
   sweep: {

@@ -10,6 +10,11 @@ import type { KnnGraph, Matrix } from '../core/types.js';
 import { exactKnn } from '../neighbors/exact.js';
 
 /** Precomputed neighbour graphs that the rank metrics may reuse. */
+/** Up to this many rows trustworthiness and continuity average over every row in an audit. */
+export const RANK_EXACT_LIMIT = 10_000;
+/** Rows they average over above that (a seeded uniform sample; ranks stay exact among all rows). */
+export const RANK_SAMPLE_ROWS = 5_000;
+
 export interface NeighbourhoodOptions {
   /**
    * Exact kNN graph of the high-dimensional points X with at least k columns.
@@ -18,6 +23,13 @@ export interface NeighbourhoodOptions {
   readonly knnX?: KnnGraph;
   /** Exact kNN graph of the embedding Y with at least k columns. */
   readonly knnY?: KnnGraph;
+  /**
+   * Rows to average over (distinct, ascending); default all. With a subset of
+   * m rows the penalty sum over them is scaled by n/m — an unbiased estimate
+   * of the full score when the rows are a uniform sample. Ranks are still
+   * exact, among all n points.
+   */
+  readonly rows?: Int32Array;
 }
 
 /**
@@ -48,7 +60,7 @@ export function trustworthiness(X: Matrix, Y: Matrix, k: number, opts: Neighbour
   checkRankInputs(X, Y, k);
   const gX = graphFor(opts.knnX, X, k, 'knnX');
   const gY = graphFor(opts.knnY, Y, k, 'knnY');
-  return rankPenaltyScore(X, gX, gY, k);
+  return rankPenaltyScore(X, gX, gY, k, checkRows(opts.rows, X.n));
 }
 
 /**
@@ -68,7 +80,18 @@ export function continuity(X: Matrix, Y: Matrix, k: number, opts: NeighbourhoodO
   checkRankInputs(X, Y, k);
   const gX = graphFor(opts.knnX, X, k, 'knnX');
   const gY = graphFor(opts.knnY, Y, k, 'knnY');
-  return rankPenaltyScore(Y, gY, gX, k);
+  return rankPenaltyScore(Y, gY, gX, k, checkRows(opts.rows, X.n));
+}
+
+function checkRows(rows: Int32Array | undefined, n: number): Int32Array | null {
+  if (rows === undefined) return null;
+  if (rows.length === 0) throw new RangeError('rows must not be empty');
+  for (let t = 0; t < rows.length; t++) {
+    if (!(rows[t] >= 0 && rows[t] < n) || (t > 0 && rows[t] <= rows[t - 1])) {
+      throw new RangeError(`rows must be distinct ascending indices in 0..${n - 1}; entry ${t} is ${rows[t]}`);
+    }
+  }
+  return rows;
 }
 
 /** Result of comparing two k-nearest-neighbour graphs of the same points. */
@@ -179,7 +202,7 @@ function graphFor(g: KnnGraph | undefined, m: Matrix, k: number, name: string): 
  * exact kNN graph (≥ k columns, prefix by (distance, index)); `gL` is the
  * graph whose k-neighbourhoods are checked against H.
  */
-function rankPenaltyScore(H: Matrix, gH: KnnGraph, gL: KnnGraph, k: number): number {
+function rankPenaltyScore(H: Matrix, gH: KnnGraph, gL: KnnGraph, k: number, rows: Int32Array | null): number {
   const n = H.n;
   const kh = gH.k;
   const kl = gL.k;
@@ -190,7 +213,9 @@ function rankPenaltyScore(H: Matrix, gH: KnnGraph, gL: KnnGraph, k: number): num
   const misses = new Int32Array(k);
   const work = new MissRankWork(k);
   let penalty = 0;
-  for (let i = 0; i < n; i++) {
+  const m = rows === null ? n : rows.length;
+  for (let t = 0; t < m; t++) {
+    const i = rows === null ? t : rows[t];
     const bh = i * kh;
     for (let p = 0; p < kh; p++) {
       const j = hIdx[bh + p];
@@ -212,7 +237,8 @@ function rankPenaltyScore(H: Matrix, gH: KnnGraph, gL: KnnGraph, k: number): num
   }
   const G = k < n / 2 ? n * k * (2 * n - 3 * k - 1) : n * (n - k) * (n - k - 1);
   // Same operation order as scikit-learn 1.2.1, so tie-free data agree to the last bit.
-  return 1 - penalty * (2 / G);
+  if (rows === null) return 1 - penalty * (2 / G);
+  return 1 - ((penalty * n) / m) * (2 / G);
 }
 
 /**

@@ -21,8 +21,8 @@ import { leastStablePoints, pointStabilityStats } from '../metrics/points.js';
 import { buildScoringIndex, distanceSample, scoringSummary } from '../metrics/scoring.js';
 import { rankSettings } from '../rank/rank.js';
 import { chooseClusters } from './clusters.js';
-import { loadData, neighbours, preprocess, scoringNeighbours, DATA_SEED } from './prepare.js';
-import { EXACT_KNN_LIMIT, knnPrefix } from '../neighbors/exact.js';
+import { loadData, neighbours, preprocess, rankRowsFor, scoringNeighbours, DATA_SEED } from './prepare.js';
+import { knnPrefix } from '../neighbors/exact.js';
 import type { ProgressSink } from './progress.js';
 import { runOne, type RunContext } from './run-one.js';
 
@@ -76,14 +76,16 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const refK = Math.min(X.n - 1, 2 * cfg.k + 10);
   let knn: KnnGraph;
   let knnReference: KnnGraph;
-  if (prep.reference === X && X.n <= EXACT_KNN_LIMIT) {
-    // One exact search serves the methods and the scores.
-    const both = neighbours(X, Math.max(kMax, refK), threads);
+  if (prep.reference === X) {
+    // One exact search serves the methods and the scores (above EXACT_KNN_LIMIT rows too:
+    // the scores need it exact, and the methods then need no search of their own).
+    const both = scoringNeighbours(X, Math.max(kMax, refK), threads);
     knn = both.k === kMax ? both : knnPrefix(both, kMax);
     knnReference = both.k === refK ? both : knnPrefix(both, refK);
   } else {
+    // Different spaces (PCA in front): the methods' graph is exact up to EXACT_KNN_LIMIT rows,
+    // NN-descent above; the scores' graph is always exact.
     knn = neighbours(X, kMax, threads);
-    // Scores need exact lists; the methods' graph is exact only up to EXACT_KNN_LIMIT rows.
     knnReference = scoringNeighbours(prep.reference, refK, threads);
   }
   progress.tick(1);
@@ -150,7 +152,7 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
       },
       labels: dataset.labels,
       ids: dataset.ids,
-      scoring: scoringSummary(scoring),
+      scoring: { ...scoringSummary(scoring), rank_rows: rankRowsFor(X.n)?.length ?? X.n },
       distance_sample: distanceSample(scoring, SHEPARD_PAIRS),
     },
     sweep: {

@@ -6,7 +6,7 @@
 import type { KnnGraph, Matrix, RunSpec } from '../core/types.js';
 import { embeddingAsMatrix, selectRows } from '../core/matrix.js';
 import { resampleRows } from './resample.js';
-import { neighbours, scoringNeighbours } from './prepare.js';
+import { neighbours, rankRowsFor, scoringNeighbours } from './prepare.js';
 import { embedOne, type EmbedContext, type Progress } from '../embed/run.js';
 import { EXACT_KNN_LIMIT, knnPrefix } from '../neighbors/exact.js';
 import { continuity, knnOverlap, trustworthiness } from '../metrics/neighbourhood.js';
@@ -70,9 +70,10 @@ export function runOne(full: RunContext, spec: RunSpec, onProgress?: Progress): 
   const knnX: KnnGraph = ctx.knnReference.k === ctx.k ? ctx.knnReference : knnPrefix(ctx.knnReference, ctx.k);
   const knnY = scoringNeighbours(Y, ctx.k);
   const structure = scoreStructure(full.scoring, Y, knnY, rows ?? undefined);
+  const rankRows = rankRowsFor(Y.n);
   const metrics: RunMetrics = {
-    trustworthiness: trustworthiness(ctx.reference, Y, ctx.k, { knnX, knnY }),
-    continuity: continuity(ctx.reference, Y, ctx.k, { knnX, knnY }),
+    trustworthiness: trustworthiness(ctx.reference, Y, ctx.k, { knnX, knnY, rows: rankRows }),
+    continuity: continuity(ctx.reference, Y, ctx.k, { knnX, knnY, rows: rankRows }),
     knn_overlap: knnOverlap(knnX, knnY, ctx.k).fraction,
     auc_rnx: finiteOrNull(structure.auc_rnx),
     distance_spearman: finiteOrNull(structure.distance_spearman),

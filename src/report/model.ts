@@ -201,6 +201,17 @@ export function buildModel(
     ...(ds.scoring
       ? [
           { term: 'R_NX query rows', text: count(ds.scoring.rnx_rows) },
+          ...(ds.scoring.rank_rows !== undefined
+            ? [
+                {
+                  term: 'rows trustworthiness and continuity average over',
+                  text:
+                    ds.scoring.rank_rows >= ds.n
+                      ? `all ${count(ds.n)}`
+                      : `${count(ds.scoring.rank_rows)} of ${count(ds.n)}, a seeded sample (ranks among all rows)`,
+                },
+              ]
+            : []),
           {
             term: 'pairs for the distance Spearman',
             text: ds.scoring.distance_all_pairs

@@ -153,6 +153,45 @@ describe('trustworthiness and continuity', () => {
     }
   });
 
+  it('average over given rows: the full-rank-matrix sum over those rows scaled by n/m, exact ranks among all points', () => {
+    const rng = new Rng(44);
+    const n = 150;
+    const X = matrixFromRows(Array.from({ length: n }, () => Array.from({ length: 12 }, () => rng.int(3))));
+    const Y = matrixFromRows(Array.from({ length: n }, () => [rng.normal(), rng.normal()]));
+    const RX = naiveRanks(X);
+    const RY = naiveRanks(Y);
+    const rows = Int32Array.from({ length: 50 }, (_, t) => 3 * t);
+    const partial = (RH: Int32Array, RL: Int32Array, k: number): number => {
+      let sum = 0;
+      for (const i of rows) {
+        for (let j = 0; j < n; j++) if (j !== i && RL[i * n + j] <= k && RH[i * n + j] > k) sum += RH[i * n + j] - k;
+      }
+      const G = n * k * (2 * n - 3 * k - 1);
+      return 1 - (2 / G) * sum * (n / rows.length);
+    };
+    for (const k of [5, 15]) {
+      expect(trustworthiness(X, Y, k, { rows })).toBeCloseTo(partial(RX, RY, k), 13);
+      expect(continuity(X, Y, k, { rows })).toBeCloseTo(partial(RY, RX, k), 13);
+      // Every row given: the same bytes as no rows at all.
+      const all = Int32Array.from({ length: n }, (_, i) => i);
+      expect(trustworthiness(X, Y, k, { rows: all })).toBe(trustworthiness(X, Y, k));
+    }
+    expect(() => trustworthiness(X, Y, 5, { rows: Int32Array.from([3, 2]) })).toThrow(/ascending/);
+    expect(() => trustworthiness(X, Y, 5, { rows: Int32Array.from([150]) })).toThrow(/0\.\.149/);
+  });
+
+  it('estimate the full score closely from a 1,000-row sample of 3,000 (digits-like clusters, t-SNE-like map)', () => {
+    const rng = new Rng(45);
+    const n = 3000;
+    const X = gaussianMatrix(rng, n, 20);
+    for (let i = 0; i < n; i++) X.data[i * 20 + (i % 8)] += 6; // eight groups
+    const Y = matrixFromRows(Array.from({ length: n }, (_, i) => [(i % 8) * 5 + rng.normal(), rng.normal()]));
+    const full = trustworthiness(X, Y, 15);
+    const rows = Int32Array.from({ length: 1000 }, (_, t) => 3 * t + (t % 3));
+    expect(Math.abs(trustworthiness(X, Y, 15, { rows }) - full)).toBeLessThan(0.005);
+    expect(Math.abs(continuity(X, Y, 15, { rows }) - continuity(X, Y, 15))).toBeLessThan(0.005);
+  });
+
   it('give the same value whether the high-dimensional neighbour list is short or long', () => {
     const { X, E1 } = loadDigits500();
     const short = trustworthiness(X, E1, 7, { knnX: exactKnn(X, 7) });

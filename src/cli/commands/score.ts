@@ -10,7 +10,7 @@ import { readEmbeddingCsv } from '../../io/embedding-csv.js';
 import { exactKnn } from '../../neighbors/exact.js';
 import { continuity, knnOverlap, trustworthiness } from '../../metrics/neighbourhood.js';
 import { procrustes } from '../../metrics/procrustes.js';
-import { DATA_SEED, loadData, preprocess } from '../../pipeline/prepare.js';
+import { DATA_SEED, loadData, preprocess, rankRowsFor } from '../../pipeline/prepare.js';
 import { buildScoringIndex, scoreStructure, scoringSummary } from '../../metrics/scoring.js';
 import { labelCodes } from '../../pipeline/labels.js';
 import { sweepFromArgv } from './common.js';
@@ -34,9 +34,10 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
   const labels = dataset.labels ? labelCodes(dataset.labels) : null;
   const index = buildScoringIndex(X, knnX, { k, labels, seed: DATA_SEED });
   const structure = scoreStructure(index, Y, knnY);
+  const rankRows = rankRowsFor(X.n);
   const scores: Record<string, number | null> = {
-    trustworthiness: trustworthiness(X, Y, k, { knnX, knnY }),
-    continuity: continuity(X, Y, k, { knnX, knnY }),
+    trustworthiness: trustworthiness(X, Y, k, { knnX, knnY, rows: rankRows }),
+    continuity: continuity(X, Y, k, { knnX, knnY, rows: rankRows }),
     knn_overlap: knnOverlap(knnX, knnY, k).fraction,
     auc_rnx: structure.auc_rnx,
     distance_spearman: structure.distance_spearman,
@@ -45,7 +46,7 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
     label_silhouette: structure.label_silhouette,
     label_knn_accuracy: structure.label_knn_accuracy,
   };
-  const sampling = scoringSummary(index);
+  const sampling = { ...scoringSummary(index), rank_rows: rankRows?.length ?? X.n };
   if (typeof argv.against === 'string') {
     const other = await readEmbeddingCsv(argv.against);
     if (other.n !== X.n) throw new InputError('score.row-count', `${argv.against}: has ${other.n} rows but ${embPath} has ${X.n}; both embeddings must cover the same rows in the same order`);
