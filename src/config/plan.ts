@@ -95,17 +95,19 @@ export function estimateRunSeconds(method: MethodName, params: MethodParams, n: 
 
 /** Cost constants (seconds per unit of work). */
 export const COST = {
-  tsnePerNlognIter: 1.1e-7,
+  tsnePerNlognIter: 0.85e-7,
   tsnePerEdgeIter: 1.5e-9,
   umapPerEdgeEpoch: 3.6e-8,
   umapPerPoint: 4.0e-4,
   pcaPerCell: 1e-6,
-  knnPerPairDim: 1.2e-9,
+  /** Exact neighbour search on 2 threads: 0.27 s at 1,500 × 150, 1.4 s at 10,000 × 50, 24 s at 50,000 × 50. */
+  knnPerPairDim: 2.2e-10,
   /** Scoring index: per (query row × row × (reference column + 1)); demo: 1.0 s at 1,500 × 100. */
   scoringIndexPerCell: 4.4e-9,
   /** Setting stability, main thread: per (seed pair × row); demo: 0.48 s for 21 pairs at 1,500 rows. */
   stabilityPerPairRow: 1.5e-5,
-  scorePerRun: 0.05,
+  /** Scoring one run, per 1,000 rows: 0.3–0.4 s at 1,500 rows, 2.2–2.7 s at 10,000, 8–10 s at 50,000 (measured). */
+  scorePerRun: 0.22,
 };
 
 /**
@@ -121,7 +123,7 @@ export function estimateSweepSeconds(
   kMax: number,
   dReference: number = d,
 ): { total: number; neighbours: number; scoringIndex: number; runs: number; stability: number } {
-  const neighbours = COST.knnPerPairDim * n * n * (d + (dReference !== d ? dReference : 0)) + 1e-7 * n * kMax;
+  const neighbours = 0.15 + COST.knnPerPairDim * n * n * (d + (dReference !== d ? dReference : 0)) + 1e-7 * n * kMax;
   const queries = n <= RNX_EXACT_LIMIT ? n : Math.min(n, RNX_SAMPLE_ROWS);
   const scoringIndex = COST.scoringIndexPerCell * queries * n * (dReference + 1);
   const perRun = runs.map((r) => estimateRunSeconds(r.method, r.params, n) + COST.scorePerRun * (n / 1000));
