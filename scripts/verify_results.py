@@ -4,7 +4,8 @@ and print the largest difference from results.json, per score.
 usage: /usr/bin/python3 scripts/verify_results.py DATA.csv AUDIT_DIR [--label COL] [--id COL]
 
 Needs scikit-learn (1.2.1 used here) and scipy. Recomputes, for every run on
-all rows: trustworthiness and continuity (sklearn.manifold.trustworthiness),
+all rows: trustworthiness and continuity (sklearn.manifold.trustworthiness;
+when results.json says they averaged over all rows),
 kNN overlap, label silhouette (sklearn.metrics.silhouette_score), leave-one-out
 kNN label accuracy, density correlation and, when results.json says they were
 exact, distance Spearman (scipy.stats.spearmanr) and AUC of R_NX; per setting
@@ -77,8 +78,9 @@ for run in res["runs"]:
     Y = np.loadtxt(f"{audit}/{run['embedding']}", delimiter=",", skiprows=1)
     maps.setdefault(run["setting"], []).append(Y)
     m = run["metrics"]
-    note("trustworthiness", m["trustworthiness"], trustworthiness(X, Y, n_neighbors=k))
-    note("continuity", m["continuity"], trustworthiness(Y, X, n_neighbors=k))
+    if res["dataset"].get("scoring", {}).get("rank_rows", n) == n:  # sampled above 10,000 rows
+        note("trustworthiness", m["trustworthiness"], trustworthiness(X, Y, n_neighbors=k))
+        note("continuity", m["continuity"], trustworthiness(Y, X, n_neighbors=k))
     DY = squareform(pdist(Y, "sqeuclidean"))
     knnY = stable_knn(DY, k)
     note("knn_overlap", m["knn_overlap"], np.mean([len(set(a) & set(b)) / k for a, b in zip(knnX, knnY)]))
