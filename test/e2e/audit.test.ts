@@ -116,6 +116,17 @@ describe('steadyfold audit on the iris data', () => {
     expect(r.status).toBe(0);
     expect(readFileSync(out, 'utf8')).toBe(readFileSync(path.join(outA, 'embeddings/tsne-p10-random-s2.csv'), 'utf8'));
   });
+
+  it('`embed --method tsne --init spectral` starts from Laplacian eigenmaps: the same map for every seed, another than init pca', () => {
+    const maps = ['1', '2'].map((seed) => {
+      const out = path.join(dir, `spectral-${seed}.csv`);
+      const r = cli(['embed', dataPath, '--label', 'species', '--id', 'flower', '--method', 'tsne', '--perplexity', '10', '--init', 'spectral', '--seed', seed, '--out', out, '--quiet']);
+      expect(r.status).toBe(0);
+      return readFileSync(out, 'utf8');
+    });
+    expect(maps[1]).toBe(maps[0]);
+    expect(maps[0]).not.toBe(readFileSync(path.join(outA, 'embeddings/tsne-p10-pca-s1.csv'), 'utf8'));
+  });
 });
 
 describe('steadyfold audit with --resample', () => {

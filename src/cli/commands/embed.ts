@@ -15,10 +15,7 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
   const given: MethodParams = {};
   if (method === 'tsne') {
     if (argv.perplexity !== undefined) given.perplexity = positive('perplexity', argv.perplexity);
-    if (argv.init !== undefined) {
-      if (argv.init === 'spectral') throw new InputError('flags.init', "--init: t-SNE takes 'pca' or 'random'; 'spectral' is for UMAP");
-      given.init = String(argv.init);
-    }
+    if (argv.init !== undefined) given.init = String(argv.init);
     if (argv.iterations !== undefined) given.iterations = Math.round(positive('iterations', argv.iterations));
   } else if (method === 'umap') {
     if (argv.neighbors !== undefined) given.nNeighbors = Math.round(positive('neighbors', argv.neighbors));
