@@ -223,7 +223,7 @@ export function perturbations(spec: SettingSpec, resample: number): string[] {
   const out: string[] = [];
   const init = spec.params.init;
   if (spec.method === 'tsne') {
-    out.push(init === 'random' ? 'seed: random initialisation' : `seed: nothing (${init} initialisation and exact neighbours are deterministic)`);
+    out.push(init === 'random' ? 'seed: random initialisation' : `seed: nothing (${init} initialisation and the neighbour graph do not depend on it)`);
   } else {
     out.push(`seed: negative sampling${init === 'random' ? ' and random initialisation' : `, ${init} initialisation (tiny noise only)`}`);
   }
