@@ -8,6 +8,11 @@
  *
  * Deterministic for a given generator state: candidates are drawn from `rng`
  * in a fixed order, ties between equal distances go to the lower index.
+ *
+ * Flat typed arrays throughout: 10 starts with 10 clusters on 10,000 × 50
+ * take about 0.4 s (bench/scores.ts), where the nested-array ml-kmeans 7.0.1
+ * used before spent about 3 s in its k-means++ distance matrices (CPU
+ * profile of a 10,000-row audit).
  */
 import type { Rng } from '../core/rng.js';
 import type { Matrix } from '../core/types.js';
