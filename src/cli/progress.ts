@@ -86,8 +86,10 @@ export function consoleProgress(opts: ProgressOptions): ProgressSink {
 
 export function fmtTime(seconds: number): string {
   if (!Number.isFinite(seconds)) return '?';
-  if (seconds < 60) return `${seconds < 10 ? seconds.toFixed(1) : Math.round(seconds)} s`;
-  const m = Math.floor(seconds / 60);
-  const s = Math.round(seconds - 60 * m);
-  return `${m} min ${s} s`;
+  if (seconds < 9.95) return `${seconds.toFixed(1)} s`;
+  const whole = Math.round(seconds);
+  if (whole < 60) return `${whole} s`;
+  // Round first, then split, so 119.6 s reads "2 min 0 s", never "1 min 60 s".
+  const m = Math.floor(whole / 60);
+  return `${m} min ${whole - 60 * m} s`;
 }

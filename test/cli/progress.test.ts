@@ -40,4 +40,11 @@ describe('fmtTime', () => {
     expect(fmtTime(42.4)).toBe('42 s');
     expect(fmtTime(125)).toBe('2 min 5 s');
   });
+
+  it('rounds before splitting, so no time reads as 60 s or 1 min 60 s', () => {
+    expect(fmtTime(9.97)).toBe('10 s');
+    expect(fmtTime(59.6)).toBe('1 min 0 s');
+    expect(fmtTime(119.6)).toBe('2 min 0 s');
+    expect(fmtTime(3599.5)).toBe('60 min 0 s');
+  });
 });
