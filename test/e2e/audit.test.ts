@@ -56,7 +56,8 @@ describe('steadyfold audit on the iris data', () => {
     const stages = results.sweep.stage_seconds!;
     expect(Object.keys(stages)).toEqual(['neighbours', 'scoring_index', 'runs', 'stability']);
     const sum = Object.values(stages).reduce((a, b) => a + b, 0);
-    expect(sum).toBeLessThanOrEqual(results.sweep.seconds! + 0.05);
+    // The total is rounded to 0.1 s and each stage to 0.01 s.
+    expect(sum).toBeLessThanOrEqual(results.sweep.seconds! + 0.05 + 0.005 * 4);
     expect(stages.runs).toBeGreaterThan(0);
   });
 
