@@ -30,10 +30,11 @@ export function consoleProgress(opts: ProgressOptions): ProgressSink {
       drawn = false;
     }
   };
-  const eta = (done: number): string => {
+  const eta = (done: number, fraction?: number): string => {
     const elapsed = (now() - started) / 1000;
     let left: number | null = null;
-    if (done > 0 && done < total) left = (elapsed / done) * (total - done);
+    if (fraction !== undefined && fraction > 0 && done < total) left = (elapsed * (1 - fraction)) / fraction;
+    else if (done > 0 && done < total) left = (elapsed / done) * (total - done);
     else if (done === 0 && estimate !== undefined) left = estimate;
     return `${fmtTime(elapsed)} elapsed${left !== null && done < total ? `, about ${fmtTime(left)} left` : ''}`;
   };
@@ -50,12 +51,12 @@ export function consoleProgress(opts: ProgressOptions): ProgressSink {
       // Single-step stages say nothing until they finish, so a quick failure prints only its error.
       if (!tty && total > 1) stream.write(`${name}: started (${total} to do${est !== undefined ? `, estimate ${fmtTime(est)}` : ''})\n`);
     },
-    tick(done, note) {
+    tick(done, note, fraction) {
       if (opts.quiet) return;
       if (tty) {
         const width = 24;
         const filled = total > 0 ? Math.round((width * done) / total) : width;
-        stream.write(`\r\x1b[2K${stage} [${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total} ${eta(done)}${note ? `  ${note}` : ''}`);
+        stream.write(`\r\x1b[2K${stage} [${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total} ${eta(done, fraction)}${note ? `  ${note}` : ''}`);
         drawn = true;
         if (done >= total) {
           stream.write('\n');
@@ -66,7 +67,7 @@ export function consoleProgress(opts: ProgressOptions): ProgressSink {
       const t = now();
       if (done >= total || t - lastLine > 5000) {
         lastLine = t;
-        stream.write(`${stage}: ${done}/${total}${note ? ` (${note})` : ''}, ${eta(done)}\n`);
+        stream.write(`${stage}: ${done}/${total}${note ? ` (${note})` : ''}, ${eta(done, fraction)}\n`);
       }
     },
     warn(message) {

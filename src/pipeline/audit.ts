@@ -9,7 +9,7 @@ import { RESULTS_FORMAT, type ResultsJson, type RunRecord, type StabilityRecord 
 import { Rng, deriveSeed } from '../core/rng.js';
 import type { Dataset, Embedding, KnnGraph, RunSpec, SettingSpec } from '../core/types.js';
 import { VERSION } from '../core/version.js';
-import { expandGrid, neighboursNeeded, rowLimitProblems, estimateSweepSeconds } from '../config/plan.js';
+import { estimateRunSeconds, expandGrid, neighboursNeeded, rowLimitProblems, estimateSweepSeconds } from '../config/plan.js';
 import type { SweepConfig } from '../config/sweep.js';
 import { paramsForFile } from '../embed/methods.js';
 import { InlineExecutor, PoolExecutor } from '../exec/pool.js';
@@ -23,7 +23,7 @@ import { rankSettings } from '../rank/rank.js';
 import { chooseClusters } from './clusters.js';
 import { loadData, neighbours, preprocess, rankRowsFor, scoringNeighbours, DATA_SEED } from './prepare.js';
 import { knnPrefix } from '../neighbors/exact.js';
-import type { ProgressSink } from './progress.js';
+import { workFraction, type ProgressSink } from './progress.js';
 import { runOne, type RunContext } from './run-one.js';
 
 export interface AuditRequest {
@@ -103,12 +103,16 @@ export async function runAudit(req: AuditRequest, progress: ProgressSink): Promi
   const executor: Executor = req.workers > 0 ? new PoolExecutor(ctx, req.workers) : new InlineExecutor(ctx, runOne);
   progress.stage('runs', runs.length, est.runs);
   let done = 0;
+  const costs = runs.map((r) => estimateRunSeconds(r.method, r.params, X.n));
+  const finished = runs.map(() => false);
+  const position = new Map(runs.map((r, i) => [r.id, i]));
   let outcomes: RunOutcome[];
   try {
     outcomes = await executor.runAll(runs, (o) => {
       done++;
+      finished[position.get(o.id) ?? 0] = true;
       if (!o.ok) progress.warn(`run ${o.id} failed: ${o.error}`);
-      progress.tick(done, o.id);
+      progress.tick(done, o.id, workFraction(costs, finished, Math.max(1, req.workers)));
     });
   } finally {
     await executor.close();

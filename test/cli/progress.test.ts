@@ -24,6 +24,16 @@ describe('consoleProgress', () => {
     expect(text).not.toMatch(/\x1b/);
   });
 
+  it('takes the time left from the share of work done when it is given', () => {
+    const { chunks, stream } = sink();
+    let t = 0;
+    const p = consoleProgress({ quiet: false, stream, now: () => t });
+    p.stage('runs', 3, 120);
+    t = 120_000;
+    p.tick(1, 'tsne-p30-random-s1', 0.75);
+    expect(chunks.join('')).toContain('runs: 1/3 (tsne-p30-random-s1), 2 min 0 s elapsed, about 40 s left');
+  });
+
   it('prints nothing but warnings when quiet', () => {
     const { chunks, stream } = sink();
     const p = consoleProgress({ quiet: true, stream });
