@@ -29,11 +29,12 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
   for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
   const problem = checkAgainstRows(method, params, dataset.matrix.n);
   if (problem) throw new InputError('embed.too-few-rows', `${dataset.path}: ${problem}`);
-  const prep = preprocess(dataset, warnings, cfg.data);
+  const threads = defaultWorkers();
+  const prep = preprocess(dataset, warnings, cfg.data, threads);
   const id = settingId(method, params);
   const spec: RunSpec = { id: `${id}-s${seed}`, settingId: id, method, params, seed };
-  const knn = neighbours(prep.X, neighboursNeeded([{ id, method, params, seeds: [seed] }], 1, prep.X.n));
-  const out = embedOne({ X: prep.X, knn, threads: defaultWorkers() }, spec);
+  const knn = neighbours(prep.X, neighboursNeeded([{ id, method, params, seeds: [seed] }], 1, prep.X.n), threads);
+  const out = embedOne({ X: prep.X, knn, threads }, spec);
   await writeEmbeddingCsv(String(argv.out), out.embedding);
   const facts = Object.entries(out.info).map(([k, v]) => `${k} ${Number.isInteger(v) ? v : v.toFixed(4)}`).join(', ');
   if (argv.quiet !== true) process.stderr.write(`wrote ${argv.out} (${dataset.matrix.n} points, ${id}, seed ${seed}${facts ? `; ${facts}` : ''})\n`);

@@ -8,6 +8,7 @@ import { InputError } from '../../core/errors.js';
 import { embeddingAsMatrix } from '../../core/matrix.js';
 import { readEmbeddingCsv } from '../../io/embedding-csv.js';
 import { exactKnn } from '../../neighbors/exact.js';
+import { defaultWorkers } from '../../pipeline/audit.js';
 import { continuity, knnOverlap, trustworthiness } from '../../metrics/neighbourhood.js';
 import { procrustes } from '../../metrics/procrustes.js';
 import { DATA_SEED, loadData, preprocess, rankRowsFor } from '../../pipeline/prepare.js';
@@ -29,7 +30,7 @@ export async function run(argv: Record<string, unknown>): Promise<void> {
   if (emb.n !== X.n) throw new InputError('score.row-count', `${embPath}: has ${emb.n} rows but ${dataset.path} has ${X.n}; the embedding must have one row per data row, in the same order`);
   if (!Number.isInteger(k) || k < 1 || k > X.n - 2) throw new InputError('flags.k', `--k: ${String(argv.k)} is not allowed; give a whole number from 1 to n − 2 = ${X.n - 2}`);
   const Y = embeddingAsMatrix(emb);
-  const knnX = exactKnn(X, Math.min(X.n - 1, k));
+  const knnX = exactKnn(X, Math.min(X.n - 1, k), { threads: defaultWorkers() });
   const knnY = exactKnn(Y, k);
   const labels = dataset.labels ? labelCodes(dataset.labels) : null;
   const index = buildScoringIndex(X, knnX, { k, labels, seed: DATA_SEED });
