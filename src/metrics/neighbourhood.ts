@@ -30,6 +30,14 @@ export interface NeighbourhoodOptions {
    * exact, among all n points.
    */
   readonly rows?: Int32Array;
+  /**
+   * Trustworthiness only: keep, per row, the points found within a little
+   * more than its farthest intruder (in a cache tied to X's data array), and
+   * answer later calls on the same X from it when their intruders fall inside
+   * — a sweep scores many maps of the same data, whose intruders are mostly
+   * the same points. Results are identical with and without. Default false.
+   */
+  readonly reuseRanks?: boolean;
 }
 
 /**
@@ -60,7 +68,7 @@ export function trustworthiness(X: Matrix, Y: Matrix, k: number, opts: Neighbour
   checkRankInputs(X, Y, k);
   const gX = graphFor(opts.knnX, X, k, 'knnX');
   const gY = graphFor(opts.knnY, Y, k, 'knnY');
-  return rankPenaltyScore(X, gX, gY, k, checkRows(opts.rows, X.n));
+  return rankPenaltyScore(X, gX, gY, k, checkRows(opts.rows, X.n), opts.reuseRanks === true ? rowCacheFor(X) : null);
 }
 
 /**
@@ -80,7 +88,7 @@ export function continuity(X: Matrix, Y: Matrix, k: number, opts: NeighbourhoodO
   checkRankInputs(X, Y, k);
   const gX = graphFor(opts.knnX, X, k, 'knnX');
   const gY = graphFor(opts.knnY, Y, k, 'knnY');
-  return rankPenaltyScore(Y, gY, gX, k, checkRows(opts.rows, X.n));
+  return rankPenaltyScore(Y, gY, gX, k, checkRows(opts.rows, X.n), null);
 }
 
 function checkRows(rows: Int32Array | undefined, n: number): Int32Array | null {
@@ -202,7 +210,7 @@ function graphFor(g: KnnGraph | undefined, m: Matrix, k: number, name: string): 
  * exact kNN graph (≥ k columns, prefix by (distance, index)); `gL` is the
  * graph whose k-neighbourhoods are checked against H.
  */
-function rankPenaltyScore(H: Matrix, gH: KnnGraph, gL: KnnGraph, k: number, rows: Int32Array | null): number {
+function rankPenaltyScore(H: Matrix, gH: KnnGraph, gL: KnnGraph, k: number, rows: Int32Array | null, cache: RowCache | null): number {
   const n = H.n;
   const kh = gH.k;
   const kl = gL.k;
@@ -211,7 +219,7 @@ function rankPenaltyScore(H: Matrix, gH: KnnGraph, gL: KnnGraph, k: number, rows
   const stamp = new Int32Array(n).fill(-1);
   const rankInList = new Int32Array(n);
   const misses = new Int32Array(k);
-  const work = new MissRankWork(k);
+  const work = new MissRankWork(k, n, cache);
   let penalty = 0;
   const m = rows === null ? n : rows.length;
   for (let t = 0; t < m; t++) {
@@ -262,11 +270,48 @@ class MissRankWork {
   /** diff[p] = number of points that precede exactly the misses p, p+1, … */
   private readonly diff: Float64Array;
   private frame: PruneFrame | null = null;
+  /** Points found within the scan radius of the current row (filled only when caching). */
+  private foundJ: Int32Array | null = null;
+  private foundD: Float64Array | null = null;
 
-  constructor(k: number) {
+  constructor(
+    k: number,
+    private readonly n: number,
+    private readonly cache: RowCache | null,
+  ) {
     this.missD = new Float64Array(k);
     this.missJ = new Int32Array(k);
     this.diff = new Float64Array(k + 1);
+    if (cache !== null) this.frame = cache.frame;
+  }
+
+  /** Σ (rank − k) over the sorted misses, given diff[p] = points preceding exactly misses p, p+1, …. */
+  private total(nm: number, k: number): number {
+    const diff = this.diff;
+    let total = 0;
+    let before = 0;
+    for (let t = 0; t < nm; t++) {
+      before += diff[t];
+      total += before + 1 - k;
+    }
+    return total;
+  }
+
+  /** Count point (s, m) against the sorted misses: it precedes misses lo … nm−1. */
+  private place(s: number, m: number, nm: number): void {
+    const missD = this.missD;
+    const missJ = this.missJ;
+    let lo = 0;
+    let hi = nm;
+    while (lo < hi) {
+      const mid = (lo + hi) >>> 1;
+      const md = missD[mid];
+      if (md < s || (md === s && missJ[mid] < m)) lo = mid + 1;
+      else hi = mid;
+    }
+    // (s, m) equals a miss only when m is that miss; it does not precede itself.
+    if (lo < nm && missJ[lo] === m) lo++;
+    this.diff[lo]++;
   }
 
   /**
@@ -298,22 +343,44 @@ class MissRankWork {
       missJ[p] = j;
     }
     const thr = missD[nm - 1];
+    const diff = this.diff;
+    diff.fill(0, 0, nm + 1);
+    const cache = this.cache;
+    if (cache !== null && cache.radius2[i] >= thr) {
+      // Every point that can precede a miss lies within the cached radius.
+      const found = cache.points[i]!;
+      const dist = cache.dists[i]!;
+      for (let e = 0; e < found.length; e++) {
+        const sv = dist[e];
+        if (sv <= thr) this.place(sv, found[e], nm);
+      }
+      return this.total(nm, k);
+    }
+    // With a cache, scan a little farther than this row needs, so that later maps'
+    // intruders of this row usually fall inside what is kept.
+    const reach = cache !== null ? thr * ROW_CACHE_REACH2 : thr;
+    let nFound = 0;
+    if (cache !== null && this.foundJ === null) {
+      this.foundJ = new Int32Array(this.n);
+      this.foundD = new Float64Array(this.n);
+    }
+    const foundJ = this.foundJ;
+    const foundD = this.foundD;
     const frame = (this.frame ??= buildPruneFrame(H));
+    if (cache !== null) cache.frame ??= frame;
     const r = frame.r;
     const P = frame.proj;
     const sortedP = frame.sortedProj;
     const sortedX = frame.sortedData;
     const order = frame.order;
     const key = frame.key;
-    const bound = Math.sqrt(thr) * (1 + 1e-9) + frame.margin;
+    const bound = Math.sqrt(reach) * (1 + 1e-9) + frame.margin;
     const pruneThr = bound * bound;
     const pi = i * r;
     const centre = P[pi];
     const lo0 = lowerBound(key, centre - bound);
     const hi0 = upperBound(key, centre + bound, lo0);
 
-    const diff = this.diff;
-    diff.fill(0, 0, nm + 1);
     for (let w = lo0; w < hi0; w++) {
       const m = order[w];
       if (m === i) continue;
@@ -336,30 +403,66 @@ class MissRankWork {
           const dv = data[oi + c] - sortedX[om + c];
           s += dv * dv;
         }
-        if (s > thr) break;
+        if (s > reach) break;
       }
-      if (s > thr) continue;
-      // First miss p with (missD[p], missJ[p]) > (s, m); the point precedes misses p..nm−1.
-      let lo = 0;
-      let hi = nm;
-      while (lo < hi) {
-        const mid = (lo + hi) >>> 1;
-        const md = missD[mid];
-        if (md < s || (md === s && missJ[mid] < m)) lo = mid + 1;
-        else hi = mid;
+      if (s > reach) continue;
+      if (foundJ !== null && foundD !== null) {
+        foundJ[nFound] = m;
+        foundD[nFound] = s;
+        nFound++;
       }
-      // (s, m) equals a miss only when m is that miss; it does not precede itself.
-      if (lo < nm && missJ[lo] === m) lo++;
-      diff[lo]++;
+      if (s <= thr) this.place(s, m, nm);
     }
-    let total = 0;
-    let before = 0;
-    for (let t = 0; t < nm; t++) {
-      before += diff[t];
-      total += before + 1 - k;
-    }
-    return total;
+    if (cache !== null && foundJ !== null && foundD !== null) cache.keep(i, reach, foundJ, foundD, nFound);
+    return this.total(nm, k);
   }
+}
+
+/** Squared factor by which a cached row's scan reaches past its farthest intruder (1.2 in distance). */
+const ROW_CACHE_REACH2 = 1.44;
+/** Most point entries one row cache keeps (12 bytes each: about 200 MB). */
+export const ROW_CACHE_BUDGET = 16_000_000;
+
+/**
+ * Per row of one matrix H: every other point within a squared radius of it
+ * (unsorted, with its squared distance), for answering later rank queries
+ * without a scan; plus H's prune frame. Tied to H's data array, so it lives
+ * as long as the data and is never stale (the data are not modified).
+ */
+class RowCache {
+  /** Squared radius covered per row (−1: nothing kept). */
+  readonly radius2: Float64Array;
+  readonly points: Array<Int32Array | null>;
+  readonly dists: Array<Float64Array | null>;
+  frame: PruneFrame | null = null;
+  private entries = 0;
+
+  constructor(n: number) {
+    this.radius2 = new Float64Array(n).fill(-1);
+    this.points = new Array<Int32Array | null>(n).fill(null);
+    this.dists = new Array<Float64Array | null>(n).fill(null);
+  }
+
+  /** Keep row i's points found within squared radius `reach` (the first `count` of the arrays), budget permitting. */
+  keep(i: number, reach: number, found: Int32Array, dist: Float64Array, count: number): void {
+    const old = this.points[i]?.length ?? 0;
+    if (this.entries - old + count > ROW_CACHE_BUDGET) return;
+    this.entries += count - old;
+    this.points[i] = found.slice(0, count);
+    this.dists[i] = dist.slice(0, count);
+    this.radius2[i] = reach;
+  }
+}
+
+const rowCaches = new WeakMap<Float64Array, RowCache>();
+
+function rowCacheFor(H: Matrix): RowCache {
+  let c = rowCaches.get(H.data);
+  if (c === undefined || c.radius2.length !== H.n) {
+    c = new RowCache(H.n);
+    rowCaches.set(H.data, c);
+  }
+  return c;
 }
 
 /** Projections used to skip far points; see `MissRankWork`. */

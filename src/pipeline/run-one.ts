@@ -72,7 +72,8 @@ export function runOne(full: RunContext, spec: RunSpec, onProgress?: Progress): 
   const structure = scoreStructure(full.scoring, Y, knnY, rows ?? undefined);
   const rankRows = rankRowsFor(Y.n);
   const metrics: RunMetrics = {
-    trustworthiness: trustworthiness(ctx.reference, Y, ctx.k, { knnX, knnY, rows: rankRows }),
+    // Without a resample every run shares ctx.reference, so its row cache carries over from run to run.
+    trustworthiness: trustworthiness(ctx.reference, Y, ctx.k, { knnX, knnY, rows: rankRows, reuseRanks: rows === null }),
     continuity: continuity(ctx.reference, Y, ctx.k, { knnX, knnY, rows: rankRows }),
     knn_overlap: knnOverlap(knnX, knnY, ctx.k).fraction,
     auc_rnx: finiteOrNull(structure.auc_rnx),

@@ -192,6 +192,29 @@ describe('trustworthiness and continuity', () => {
     expect(Math.abs(continuity(X, Y, 15, { rows }) - continuity(X, Y, 15))).toBeLessThan(0.005);
   });
 
+  it('give the same bytes with reuseRanks, map after map of the same data, whether later intruders fall inside what was kept or not', () => {
+    for (const [seed, integer] of [[46, false], [47, true]] as const) {
+      const rng = new Rng(seed);
+      const n = 400;
+      const d = 12;
+      const X = matrixFromRows(Array.from({ length: n }, (_, i) => Array.from({ length: d }, (_, c) => (integer ? rng.int(3) : rng.normal()) + (c === i % 4 ? 4 : 0))));
+      const maps: Matrix[] = [];
+      // A faithful-ish map, a noisier one, an unrelated one (far intruders: rescans), then faithful again (hits).
+      for (const noise of [0.3, 1.5, -1, 0.3]) {
+        maps.push(matrixFromRows(Array.from({ length: n }, (_, i) => (noise < 0 ? [rng.normal(), rng.normal()] : [(i % 4) * 3 + noise * rng.normal(), noise * rng.normal()]))));
+      }
+      // A fresh copy of X's data gets a fresh cache; the first X is reused across calls.
+      const fresh = (): Matrix => ({ n, d, data: X.data.slice() });
+      const rows = Int32Array.from({ length: 100 }, (_, t) => 4 * t + 1);
+      for (const Y of maps) {
+        for (const k of [5, 15]) {
+          expect(trustworthiness(X, Y, k, { reuseRanks: true })).toBe(trustworthiness(fresh(), Y, k));
+          expect(trustworthiness(X, Y, k, { reuseRanks: true, rows })).toBe(trustworthiness(fresh(), Y, k, { rows }));
+        }
+      }
+    }
+  });
+
   it('give the same value whether the high-dimensional neighbour list is short or long', () => {
     const { X, E1 } = loadDigits500();
     const short = trustworthiness(X, E1, 7, { knnX: exactKnn(X, 7) });
