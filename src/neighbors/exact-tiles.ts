@@ -169,7 +169,9 @@ export function mergeRows(
  * index), compared lexicographically, in dist/idx[row·k .. row·k + k).
  * Candidates arrive in increasing index order and only when v < worst[row],
  * so a candidate that ties with the current maximum never enters: among equal
- * distances the lower indices are kept.
+ * distances the lower indices are kept. The heap itself orders by (distance,
+ * index) throughout, so a caller offering in another order keeps the same
+ * rule by gating on that order instead (./grid2d.ts).
  */
 export function offer(
   row: number,

@@ -20,6 +20,7 @@
  * same ties, and the (distance, index) rule picks the same neighbours.
  */
 import type { KnnGraph, Matrix } from '../core/types.js';
+import { offer, sortHeap } from './exact-tiles.js';
 
 /** Target mean number of points per cell over the bounding box. */
 const POINTS_PER_CELL = 2;
@@ -78,17 +79,18 @@ export function gridKnn2d(m: Matrix, k: number): KnnGraph {
   const members = new Int32Array(n);
   for (let i = 0; i < n; i++) members[fill[cellIdx[i]]++] = i;
 
-  const outIdx = new Int32Array(n * k);
-  const outDist = new Float64Array(n * k);
-  const hIdx = new Int32Array(k);
-  const hDist = new Float64Array(k);
+  // Row i's candidates live in the bounded max-heap of exact-tiles.ts at idx/dist[i·k …].
+  const idx = new Int32Array(n * k);
+  const dist = new Float64Array(n * k); // squared while searching
+  const count = new Int32Array(n);
+  const worst = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const xi = data[2 * i];
     const yi = data[2 * i + 1];
+    const base = i * k;
     const c = cellIdx[i];
     const cx = c % gx;
     const cy = (c - cx) / gx;
-    let size = 0;
     const maxRing = Math.max(cx, gx - 1 - cx, cy, gy - 1 - cy);
     for (let r = 0; r <= maxRing; r++) {
       const x0 = cx - r;
@@ -108,15 +110,13 @@ export function gridKnn2d(m: Matrix, k: number): KnnGraph {
             const dx = xi - data[2 * j];
             const dy = yi - data[2 * j + 1];
             const s = dx * dx + dy * dy;
-            if (size < k) {
-              size = heapPush(hIdx, hDist, size, s, j);
-            } else if (s < hDist[0] || (s === hDist[0] && j < hIdx[0])) {
-              heapReplaceTop(hIdx, hDist, k, s, j);
-            }
+            // Cells are not visited in index order, so a tie with the current k-th
+            // (the heap's root) enters when its index is lower.
+            if (count[i] < k || s < dist[base] || (s === dist[base] && j < idx[base])) offer(i, j, s, k, idx, dist, count, worst);
           }
         }
       }
-      if (size === k) {
+      if (count[i] === k) {
         // Distance from the query to the nearest edge of the visited block (cells x0..x1, y0..y1).
         const left = xi - (minX + Math.max(x0, 0) * h);
         const right = minX + (Math.min(x1, gx - 1) + 1) * h - xi;
@@ -128,67 +128,11 @@ export function gridKnn2d(m: Matrix, k: number): KnnGraph {
         if (y0 > 0) edge = Math.min(edge, down);
         if (y1 < gy - 1) edge = Math.min(edge, up);
         const safe = edge - slack;
-        if (safe > 0 && hDist[0] < safe * safe) break;
+        if (safe > 0 && dist[base] < safe * safe) break;
       }
     }
-    // Heapsort into ascending (distance, index).
-    for (let end = size - 1; end > 0; end--) {
-      const td = hDist[0];
-      const ti = hIdx[0];
-      hDist[0] = hDist[end];
-      hIdx[0] = hIdx[end];
-      siftDown(hIdx, hDist, end, 0);
-      hDist[end] = td;
-      hIdx[end] = ti;
-    }
-    const base = i * k;
-    for (let q = 0; q < k; q++) {
-      outIdx[base + q] = hIdx[q];
-      outDist[base + q] = Math.sqrt(hDist[q]);
-    }
+    sortHeap(base, k, idx, dist);
+    for (let q = 0; q < k; q++) dist[base + q] = Math.sqrt(dist[base + q]);
   }
-  return { n, k, indices: outIdx, distances: outDist };
-}
-
-/** Max-heap on (distance, index): the root is the largest pair. */
-function above(d1: number, i1: number, d2: number, i2: number): boolean {
-  return d1 > d2 || (d1 === d2 && i1 > i2);
-}
-
-function heapPush(idx: Int32Array, dist: Float64Array, size: number, s: number, j: number): number {
-  let p = size;
-  while (p > 0) {
-    const parent = (p - 1) >> 1;
-    if (!above(s, j, dist[parent], idx[parent])) break;
-    dist[p] = dist[parent];
-    idx[p] = idx[parent];
-    p = parent;
-  }
-  dist[p] = s;
-  idx[p] = j;
-  return size + 1;
-}
-
-function heapReplaceTop(idx: Int32Array, dist: Float64Array, size: number, s: number, j: number): void {
-  dist[0] = s;
-  idx[0] = j;
-  siftDown(idx, dist, size, 0);
-}
-
-function siftDown(idx: Int32Array, dist: Float64Array, size: number, from: number): void {
-  let p = from;
-  const v = dist[p];
-  const vi = idx[p];
-  for (;;) {
-    let child = 2 * p + 1;
-    if (child >= size) break;
-    const right = child + 1;
-    if (right < size && above(dist[right], idx[right], dist[child], idx[child])) child = right;
-    if (!above(dist[child], idx[child], v, vi)) break;
-    dist[p] = dist[child];
-    idx[p] = idx[child];
-    p = child;
-  }
-  dist[p] = v;
-  idx[p] = vi;
+  return { n, k, indices: idx, distances: dist };
 }
