@@ -12,13 +12,13 @@
  * asserted.
  */
 import os from 'node:os';
-import { Rng, deriveSeed, sampleIndices } from '../src/core/rng.js';
+import { Rng } from '../src/core/rng.js';
 import type { Matrix } from '../src/core/types.js';
 import { runUmap } from '../src/embed/umap/index.js';
 import { kmeansLabels } from '../src/metrics/clustering.js';
-import { RANK_SAMPLE_ROWS, continuity, trustworthiness } from '../src/metrics/neighbourhood.js';
+import { continuity, trustworthiness } from '../src/metrics/neighbourhood.js';
 import { exactKnn, knnOf } from '../src/neighbors/exact.js';
-import { DATA_SEED } from '../src/pipeline/prepare.js';
+import { rankSample } from '../src/pipeline/prepare.js';
 import { mixture } from './mixture.js';
 
 const args = process.argv.slice(2);
@@ -41,7 +41,7 @@ for (const n of sizes) {
   const Y: Matrix = { n, d: 2, data: map.data };
   const knnY = time(() => exactKnn(Y, K));
   rows.push([String(n), 'map kNN (grid search)', knnY.seconds.toFixed(3), '']);
-  const sample = sampleIndices(n, Math.min(n, RANK_SAMPLE_ROWS), new Rng(deriveSeed(DATA_SEED, 'rank-rows', n)));
+  const sample = rankSample(n);
   const opts = { knnX, knnY: knnY.value };
   process.stderr.write(`n = ${n}: trustworthiness and continuity…\n`);
   const tFull = time(() => trustworthiness(X, Y, K, opts));

@@ -81,6 +81,10 @@ export function scoringNeighbours(X: Matrix, k: number, threads = 1): KnnGraph {
  * n² distance evaluations, which at 50,000 rows took a minute per run.
  */
 export function rankRowsFor(n: number): Int32Array | undefined {
-  if (n <= RANK_EXACT_LIMIT) return undefined;
-  return sampleIndices(n, RANK_SAMPLE_ROWS, new Rng(deriveSeed(DATA_SEED, 'rank-rows', n)));
+  return n <= RANK_EXACT_LIMIT ? undefined : rankSample(n);
+}
+
+/** The seeded sample of min(n, RANK_SAMPLE_ROWS) rows `rankRowsFor` uses above the limit. */
+export function rankSample(n: number): Int32Array {
+  return sampleIndices(n, Math.min(n, RANK_SAMPLE_ROWS), new Rng(deriveSeed(DATA_SEED, 'rank-rows', n)));
 }

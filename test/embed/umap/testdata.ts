@@ -1,7 +1,5 @@
 /** Shared inputs for the UMAP and starting-layout tests. */
 import { readFileSync } from 'node:fs';
-import type { Rng } from '../../../src/core/rng.js';
-import type { Matrix } from '../../../src/core/types.js';
 import type { FuzzyGraph } from '../../../src/embed/umap/index.js';
 
 export const fixturePath = (name: string): string => new URL(`../../fixtures/${name}`, import.meta.url).pathname;
@@ -10,19 +8,8 @@ export function readJson<T>(name: string): T {
   return JSON.parse(readFileSync(fixturePath(name), 'utf8')) as T;
 }
 
-/** n points from `clusters` isotropic unit Gaussians in d dimensions, centres ~ N(0, separation²·I); labels i mod clusters. */
-export function mixture(rng: Rng, n: number, d: number, clusters: number, separation: number): { X: Matrix; labels: Int32Array } {
-  const centres = new Float64Array(clusters * d);
-  for (let e = 0; e < centres.length; e++) centres[e] = separation * rng.normal();
-  const data = new Float64Array(n * d);
-  const labels = new Int32Array(n);
-  for (let i = 0; i < n; i++) {
-    const c = i % clusters;
-    labels[i] = c;
-    for (let t = 0; t < d; t++) data[i * d + t] = centres[c * d + t] + rng.normal();
-  }
-  return { X: { n, d, data }, labels };
-}
+/** n points from `clusters` isotropic unit Gaussians in d dimensions (the t-SNE tests' generator). */
+export { gaussianMixture as mixture } from '../tsne/helpers.js';
 
 /** Dense n × n copy of a CSR graph (tests only). */
 export function denseOf(g: FuzzyGraph): Float64Array {
